@@ -1,0 +1,18 @@
+//! # flashduty
+//!
+//! Rachford–Rice isothermal flash and heater duty of ideal (Raoult's-law) mixtures, with
+//! every constant traced to a published source.
+//!
+//! Results are estimates from ideal-mixture models. Check that the models suit your mixture
+//! and conditions; equipment design and operation follow the applicable local codes and the
+//! judgement of a qualified, licensed engineer.
+//!
+//! The layers, from the bottom up: [`units`] (quantities), [`properties`] (pure-component
+//! correlations), [`library`] (the cited component data).
+#![deny(missing_docs)]
+#![forbid(unsafe_code)]
+
+pub mod library;
+pub mod properties;
+pub mod rachford_rice;
+pub mod units;

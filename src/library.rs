@@ -1,0 +1,289 @@
+//! The component library: the built-in set in `data/components.json`, embedded in the
+//! binary, and user components read from files in the same schema.
+//!
+//! The file holds a bibliography (`sources`: key → citation) and a list of components; every
+//! number in a component names a key of that bibliography and says whether it was typed
+//! from memory. See DEVELOPERS.md for the schema and how to add a component.
+//!
+//! ```
+//! use flashduty::library::Library;
+//! let lib = Library::builtin();
+//! assert!(lib.len() >= 31);
+//! assert_eq!(lib.get("Benzene").unwrap().name(), "benzene");
+//! assert_eq!(lib.get("108-88-3").unwrap().name(), "toluene");
+//! let err = lib.get("tolune").unwrap_err();
+//! assert!(err.to_string().contains("toluene"));
+//! ```
+
+use crate::properties::{Component, ComponentError};
+use serde::{Deserialize, Serialize};
+use std::collections::BTreeMap;
+use std::path::Path;
+use std::sync::{Arc, OnceLock};
+
+/// The built-in component file, embedded at compile time.
+pub const BUILTIN_JSON: &str = include_str!("../data/components.json");
+
+/// The schema tag every component file carries.
+pub const SCHEMA: &str = "flashduty-components/1";
+
+/// A look-up that found nothing.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+#[error("unknown component '{name}'{}", suggestion_text(.suggestions))]
+pub struct UnknownComponent {
+    /// The name or CAS number asked for.
+    pub name: String,
+    /// The nearest known names, best first.
+    pub suggestions: Vec<String>,
+}
+
+fn suggestion_text(s: &[String]) -> String {
+    if s.is_empty() {
+        String::new()
+    } else {
+        format!(" (did you mean {}?)", s.join(", "))
+    }
+}
+
+#[derive(Debug, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct ComponentFile {
+    schema: String,
+    #[serde(default)]
+    sources: BTreeMap<String, String>,
+    components: Vec<crate::properties::component::ComponentRecord>,
+}
+
+/// A set of components with look-up by name, synonym or CAS number.
+#[derive(Debug, Clone, Default)]
+pub struct Library {
+    components: Vec<Arc<Component>>,
+    sources: BTreeMap<String, String>,
+    index: BTreeMap<String, usize>,
+}
+
+fn key(s: &str) -> String {
+    s.trim().to_lowercase()
+}
+
+impl Library {
+    /// The built-in library (parsed once, then shared).
+    ///
+    /// The embedded file is checked by the test suite; should it ever fail to load, this
+    /// returns an empty library rather than panic, and [`Library::try_builtin`] gives the
+    /// reason.
+    pub fn builtin() -> &'static Library {
+        static LIB: OnceLock<Library> = OnceLock::new();
+        LIB.get_or_init(|| Self::try_builtin().unwrap_or_default())
+    }
+
+    /// Parses the built-in library, reporting any error in it.
+    ///
+    /// # Errors
+    /// A [`ComponentError`] naming the component and field.
+    pub fn try_builtin() -> Result<Library, ComponentError> {
+        let mut lib = Library::default();
+        lib.add_json("<built-in>", BUILTIN_JSON)?;
+        Ok(lib)
+    }
+
+    /// Adds the components of a JSON component file's text.
+    ///
+    /// # Errors
+    /// [`ComponentError::Parse`] for bad syntax, a wrong schema tag or a missing field;
+    /// [`ComponentError::InvalidValue`], [`ComponentError::UnknownSource`] or
+    /// [`ComponentError::Duplicate`] for bad data.
+    ///
+    /// ```
+    /// use flashduty::library::Library;
+    /// let mut lib = Library::builtin().clone();
+    /// let bad = r#"{"schema": "flashduty-components/1", "components": [{"name": "x"}]}"#;
+    /// let err = lib.add_json("mine.json", bad).unwrap_err();
+    /// assert!(err.to_string().contains("mine.json"));
+    /// ```
+    pub fn add_json(&mut self, file: &str, text: &str) -> Result<usize, ComponentError> {
+        let parsed: ComponentFile = serde_json::from_str(text).map_err(|e| ComponentError::Parse {
+            file: file.to_string(),
+            message: e.to_string(),
+        })?;
+        self.add_file(file, parsed)
+    }
+
+    /// Adds the components of a TOML component file's text (same schema as JSON).
+    ///
+    /// # Errors
+    /// As [`Library::add_json`].
+    pub fn add_toml(&mut self, file: &str, text: &str) -> Result<usize, ComponentError> {
+        let parsed: ComponentFile = toml::from_str(text).map_err(|e| ComponentError::Parse {
+            file: file.to_string(),
+            message: e.to_string().replace('\n', " "),
+        })?;
+        self.add_file(file, parsed)
+    }
+
+    /// Reads a component file (`.toml` as TOML, anything else as JSON) and adds its
+    /// components; returns how many were added.
+    ///
+    /// # Errors
+    /// [`ComponentError::Parse`] if the file cannot be read, else as [`Library::add_json`].
+    pub fn add_path(&mut self, path: &Path) -> Result<usize, ComponentError> {
+        let name = path.display().to_string();
+        let text = std::fs::read_to_string(path).map_err(|e| ComponentError::Parse {
+            file: name.clone(),
+            message: e.to_string(),
+        })?;
+        if path.extension().is_some_and(|e| e.eq_ignore_ascii_case("toml")) {
+            self.add_toml(&name, &text)
+        } else {
+            self.add_json(&name, &text)
+        }
+    }
+
+    fn add_file(&mut self, file: &str, parsed: ComponentFile) -> Result<usize, ComponentError> {
+        if parsed.schema != SCHEMA {
+            return Err(ComponentError::Parse {
+                file: file.to_string(),
+                message: format!("schema is '{}', expected '{SCHEMA}'", parsed.schema),
+            });
+        }
+        // Sources of this file, plus those already known (user files may cite built-ins).
+        let mut sources = self.sources.clone();
+        sources.extend(parsed.sources.clone());
+        let mut built = Vec::with_capacity(parsed.components.len());
+        for record in parsed.components {
+            built.push(Component::from_record(record, &sources)?);
+        }
+        let count = built.len();
+        let mut next = self.clone();
+        next.sources = sources;
+        for c in built {
+            next.insert(c)?;
+        }
+        *self = next;
+        Ok(count)
+    }
+
+    /// Adds one checked component.
+    ///
+    /// # Errors
+    /// [`ComponentError::Duplicate`] when its name, a synonym or its CAS number is taken.
+    pub fn insert(&mut self, component: Component) -> Result<(), ComponentError> {
+        let keys: Vec<String> = std::iter::once(component.name())
+            .chain(component.synonyms().iter().map(String::as_str))
+            .chain(std::iter::once(component.cas()))
+            .map(key)
+            .collect();
+        for k in &keys {
+            if let Some(&i) = self.index.get(k) {
+                return Err(ComponentError::Duplicate {
+                    component: component.name().to_string(),
+                    key: k.clone(),
+                    other: self.components[i].name().to_string(),
+                });
+            }
+        }
+        let i = self.components.len();
+        self.components.push(Arc::new(component));
+        for k in keys {
+            self.index.insert(k, i);
+        }
+        Ok(())
+    }
+
+    /// Looks a component up by name, synonym or CAS number, ignoring case.
+    ///
+    /// # Errors
+    /// [`UnknownComponent`] with the nearest names as suggestions.
+    pub fn get(&self, name: &str) -> Result<&Arc<Component>, UnknownComponent> {
+        self.index
+            .get(&key(name))
+            .map(|&i| &self.components[i])
+            .ok_or_else(|| UnknownComponent {
+                name: name.to_string(),
+                suggestions: self.suggest(name),
+            })
+    }
+
+    /// Looks up several components at once, in order.
+    ///
+    /// # Errors
+    /// The first [`UnknownComponent`].
+    pub fn get_all<S: AsRef<str>>(&self, names: &[S]) -> Result<Vec<Arc<Component>>, UnknownComponent> {
+        names.iter().map(|n| self.get(n.as_ref()).cloned()).collect()
+    }
+
+    /// The nearest known names to `name` (edit distance), at most three.
+    pub fn suggest(&self, name: &str) -> Vec<String> {
+        let k = key(name);
+        let mut scored: Vec<(usize, &str)> = self
+            .index
+            .iter()
+            .map(|(known, &i)| {
+                let d = edit_distance(&k, known);
+                // A known name that starts with or contains what was typed is a good hint.
+                let d = if !k.is_empty() && known.contains(&k) { d.min(1) } else { d };
+                (d, self.components[i].name())
+            })
+            .collect();
+        scored.sort();
+        let limit = (k.chars().count() / 2).max(2);
+        let mut out: Vec<String> = Vec::new();
+        for (d, n) in scored {
+            if d <= limit && !out.iter().any(|o| o == n) {
+                out.push(n.to_string());
+            }
+            if out.len() == 3 {
+                break;
+            }
+        }
+        out
+    }
+
+    /// Every component, in file order.
+    pub fn components(&self) -> impl Iterator<Item = &Arc<Component>> {
+        self.components.iter()
+    }
+
+    /// Number of components.
+    pub fn len(&self) -> usize {
+        self.components.len()
+    }
+
+    /// True when there are no components.
+    pub fn is_empty(&self) -> bool {
+        self.components.is_empty()
+    }
+
+    /// The bibliography: source key → full citation.
+    pub fn sources(&self) -> &BTreeMap<String, String> {
+        &self.sources
+    }
+}
+
+/// Levenshtein distance over characters.
+fn edit_distance(a: &str, b: &str) -> usize {
+    let b: Vec<char> = b.chars().collect();
+    let mut prev: Vec<usize> = (0..=b.len()).collect();
+    let mut cur = vec![0; b.len() + 1];
+    for (i, ca) in a.chars().enumerate() {
+        cur[0] = i + 1;
+        for (j, cb) in b.iter().enumerate() {
+            let sub = prev[j] + usize::from(ca != *cb);
+            cur[j + 1] = sub.min(prev[j + 1] + 1).min(cur[j] + 1);
+        }
+        std::mem::swap(&mut prev, &mut cur);
+    }
+    prev[b.len()]
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn edit_distances() {
+        assert_eq!(edit_distance("kitten", "sitting"), 3);
+        assert_eq!(edit_distance("", "abc"), 3);
+        assert_eq!(edit_distance("toluene", "toluene"), 0);
+    }
+}
