@@ -10,9 +10,14 @@
 //! The layers, from the bottom up: [`units`] (quantities), [`properties`] (pure-component
 //! correlations), [`library`] (the cited component data).
 #![deny(missing_docs)]
-#![forbid(unsafe_code)]
+#![deny(unsafe_code)]
 
+pub mod energy;
+pub mod equilibrium;
+pub mod fit;
 pub mod library;
 pub mod properties;
 pub mod rachford_rice;
+mod solve;
 pub mod units;
+pub mod warnings;

@@ -15,6 +15,7 @@
 //! assert!(err.to_string().contains("toluene"));
 //! ```
 
+use crate::properties::component::ComponentRecord;
 use crate::properties::{Component, ComponentError};
 use serde::{Deserialize, Serialize};
 use std::collections::BTreeMap;
@@ -51,7 +52,8 @@ struct ComponentFile {
     schema: String,
     #[serde(default)]
     sources: BTreeMap<String, String>,
-    components: Vec<crate::properties::component::ComponentRecord>,
+    /// Parsed one by one, so that an error can name the component it is in.
+    components: Vec<serde_json::Value>,
 }
 
 /// A set of components with look-up by name, synonym or CAS number.
@@ -150,7 +152,15 @@ impl Library {
         let mut sources = self.sources.clone();
         sources.extend(parsed.sources.clone());
         let mut built = Vec::with_capacity(parsed.components.len());
-        for record in parsed.components {
+        for (i, value) in parsed.components.into_iter().enumerate() {
+            let name = value
+                .get("name")
+                .and_then(|n| n.as_str())
+                .map_or_else(|| format!("#{}", i + 1), str::to_string);
+            let record: ComponentRecord = serde_json::from_value(value).map_err(|e| ComponentError::Parse {
+                file: file.to_string(),
+                message: format!("component '{name}': {e}"),
+            })?;
             built.push(Component::from_record(record, &sources)?);
         }
         let count = built.len();

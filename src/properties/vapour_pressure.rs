@@ -184,13 +184,29 @@ impl ExtendedAntoine {
     }
 }
 
-impl VapourPressure for ExtendedAntoine {
+impl ExtendedAntoine {
     #[inline]
-    fn ln_psat_with_slope(&self, t_k: f64) -> (f64, f64) {
+    fn raw(&self, t_k: f64) -> (f64, f64) {
         let dte = self.d * t_k.powf(self.e);
         let ln_p = self.a + self.b / t_k + self.c * t_k.ln() + dte;
         let slope = -self.b / (t_k * t_k) + self.c / t_k + self.e * dte / t_k;
         (ln_p, slope)
+    }
+}
+
+impl VapourPressure for ExtendedAntoine {
+    /// Above the fitted range (normally the critical point) the curve is continued by its
+    /// Clausius–Clapeyron tangent at the top of the range, so that it keeps rising: the
+    /// D·T^E term would otherwise turn it over. Such calls are reported as extrapolated.
+    #[inline]
+    fn ln_psat_with_slope(&self, t_k: f64) -> (f64, f64) {
+        let t1 = self.range.max_k;
+        if t_k <= t1 {
+            return self.raw(t_k);
+        }
+        let (ln_p1, s1) = self.raw(t1);
+        let m = (s1 * t1 * t1).max(0.0);
+        (ln_p1 + m * (1.0 / t1 - 1.0 / t_k), m / (t_k * t_k))
     }
 
     fn validity(&self) -> ValidityRange {

@@ -1,0 +1,276 @@
+//! K-value models: the ratio Kᵢ = yᵢ / xᵢ at equilibrium.
+
+use crate::library::{Library, UnknownComponent};
+use crate::properties::{Component, VapourPressure};
+use crate::warnings::{RAOULT_PRESSURE_LIMIT_PA, Warning, push_unique};
+use std::sync::Arc;
+
+/// K-values and their derivatives at one state, in caller-owned buffers.
+///
+/// ```
+/// use flashduty::equilibrium::KValues;
+/// let kv = KValues::new(3);
+/// assert_eq!(kv.k.len(), 3);
+/// ```
+#[derive(Debug, Clone, Default, PartialEq)]
+pub struct KValues {
+    /// Kᵢ.
+    pub k: Vec<f64>,
+    /// ∂ln Kᵢ / ∂T at constant P and composition, 1/K.
+    pub dln_k_dt: Vec<f64>,
+    /// ∂ln Kᵢ / ∂P at constant T and composition, 1/Pa.
+    pub dln_k_dp: Vec<f64>,
+}
+
+impl KValues {
+    /// Zeroed buffers for `n` components.
+    pub fn new(n: usize) -> Self {
+        Self {
+            k: vec![0.0; n],
+            dln_k_dt: vec![0.0; n],
+            dln_k_dp: vec![0.0; n],
+        }
+    }
+}
+
+/// A K-value model: Kᵢ from temperature, pressure and (for non-ideal models) the phase
+/// compositions, with ∂ln K/∂T and ∂ln K/∂P.
+///
+/// Two methods are required: [`component_count`](Self::component_count) and
+/// [`k_values`](Self::k_values). A model whose K-values depend on composition (a modified
+/// Raoult's law with activity coefficients, say) returns `true` from
+/// [`is_composition_dependent`](Self::is_composition_dependent); the flash code then wraps
+/// each specification in an outer successive-substitution loop on the phase compositions,
+/// so no flash code changes when such a model is added.
+///
+/// ```
+/// use flashduty::equilibrium::{KValueModel, KValues, flash, FlashSpec};
+/// use flashduty::units::{Temperature, Pressure};
+/// /// Invented K-values that halve as pressure doubles and rise 3 % per kelvin.
+/// struct Chart;
+/// impl KValueModel for Chart {
+///     fn component_count(&self) -> usize { 2 }
+///     fn k_values(&self, t: f64, p: f64, _x: &[f64], _y: &[f64], out: &mut KValues) {
+///         for (i, k0) in [4.0, 0.25].into_iter().enumerate() {
+///             out.k[i] = k0 * (0.03 * (t - 300.0)).exp() * 1e5 / p;
+///             out.dln_k_dt[i] = 0.03;
+///             out.dln_k_dp[i] = -1.0 / p;
+///         }
+///     }
+/// }
+/// let spec = FlashSpec::TemperaturePressure {
+///     temperature: Temperature::new("T", 300.0).unwrap(),
+///     pressure: Pressure::new("P", 1e5).unwrap(),
+/// };
+/// let r = flash(&Chart, &[0.5, 0.5], spec).unwrap();
+/// assert!((r.vapour_fraction - 0.5).abs() < 1e-12);
+/// ```
+pub trait KValueModel {
+    /// The number of components the model describes.
+    fn component_count(&self) -> usize;
+
+    /// Writes Kᵢ, ∂ln Kᵢ/∂T and ∂ln Kᵢ/∂P at `t_k`, `p_pa` for the given liquid and vapour
+    /// compositions (ignored by composition-independent models) into `out`, whose vectors
+    /// have [`component_count`](Self::component_count) entries.
+    fn k_values(&self, t_k: f64, p_pa: f64, liquid: &[f64], vapour: &[f64], out: &mut KValues);
+
+    /// Whether K depends on the phase compositions. Default: no.
+    fn is_composition_dependent(&self) -> bool {
+        false
+    }
+
+    /// Adds the model's warnings at this state (extrapolated correlations, supercritical
+    /// components, pressure too high for the model). Default: none.
+    fn warnings(&self, _t_k: f64, _p_pa: f64, _out: &mut Vec<Warning>) {}
+
+    /// The components' names, for messages. Default: "component 1", "component 2", ...
+    fn component_name(&self, index: usize) -> String {
+        format!("component {}", index + 1)
+    }
+
+    /// A first guess at the temperatures (K) between which the bubble and dew points at
+    /// `p_pa` lie; searches widen it as needed. Default: none.
+    fn temperature_hint(&self, _p_pa: f64) -> Option<(f64, f64)> {
+        None
+    }
+}
+
+impl<M: KValueModel + ?Sized> KValueModel for &M {
+    fn component_count(&self) -> usize {
+        (**self).component_count()
+    }
+    fn k_values(&self, t_k: f64, p_pa: f64, liquid: &[f64], vapour: &[f64], out: &mut KValues) {
+        (**self).k_values(t_k, p_pa, liquid, vapour, out)
+    }
+    fn is_composition_dependent(&self) -> bool {
+        (**self).is_composition_dependent()
+    }
+    fn warnings(&self, t_k: f64, p_pa: f64, out: &mut Vec<Warning>) {
+        (**self).warnings(t_k, p_pa, out)
+    }
+    fn component_name(&self, index: usize) -> String {
+        (**self).component_name(index)
+    }
+    fn temperature_hint(&self, p_pa: f64) -> Option<(f64, f64)> {
+        (**self).temperature_hint(p_pa)
+    }
+}
+
+/// Raoult's law: Kᵢ = Psatᵢ(T) / P, for ideal liquid and ideal-gas vapour.
+///
+/// Pros: needs only vapour pressures; exact for ideal mixtures at low pressure. Cons: wrong
+/// for mixtures with strong liquid non-ideality (alcohol–water, for example) and at
+/// pressures above a few bar; a component above its critical temperature is extrapolated.
+///
+/// ```
+/// use flashduty::equilibrium::{KValueModel, KValues, Raoult};
+/// let m = Raoult::from_names(&["benzene", "toluene"]).unwrap();
+/// let mut kv = KValues::new(2);
+/// m.k_values(360.0, 101_325.0, &[], &[], &mut kv);
+/// assert!(kv.k[0] > 1.0 && kv.k[1] < 1.0);
+/// ```
+#[derive(Debug, Clone)]
+pub struct Raoult {
+    components: Vec<Arc<Component>>,
+}
+
+impl Raoult {
+    /// A model over the given components.
+    pub fn new(components: Vec<Arc<Component>>) -> Self {
+        Self { components }
+    }
+
+    /// A model over built-in components looked up by name, synonym or CAS number.
+    ///
+    /// # Errors
+    /// [`UnknownComponent`] with suggestions.
+    pub fn from_names<S: AsRef<str>>(names: &[S]) -> Result<Self, UnknownComponent> {
+        Self::from_library(Library::builtin(), names)
+    }
+
+    /// A model over components looked up in `library`.
+    ///
+    /// # Errors
+    /// [`UnknownComponent`] with suggestions.
+    pub fn from_library<S: AsRef<str>>(library: &Library, names: &[S]) -> Result<Self, UnknownComponent> {
+        Ok(Self::new(library.get_all(names)?))
+    }
+
+    /// The components.
+    pub fn components(&self) -> &[Arc<Component>] {
+        &self.components
+    }
+}
+
+impl KValueModel for Raoult {
+    fn component_count(&self) -> usize {
+        self.components.len()
+    }
+
+    #[inline]
+    fn k_values(&self, t_k: f64, p_pa: f64, _liquid: &[f64], _vapour: &[f64], out: &mut KValues) {
+        let ln_p = p_pa.ln();
+        let dln_k_dp = -1.0 / p_pa;
+        for (i, c) in self.components.iter().enumerate() {
+            let (ln_psat, slope) = c.vapour_pressure().ln_psat_with_slope(t_k);
+            out.k[i] = (ln_psat - ln_p).exp();
+            out.dln_k_dt[i] = slope;
+            out.dln_k_dp[i] = dln_k_dp;
+        }
+    }
+
+    fn warnings(&self, t_k: f64, p_pa: f64, out: &mut Vec<Warning>) {
+        for c in &self.components {
+            let vp = c.vapour_pressure();
+            if vp.is_extrapolated(t_k) {
+                let r = vp.validity();
+                push_unique(
+                    out,
+                    Warning::CorrelationExtrapolated {
+                        component: c.name().to_string(),
+                        correlation: "vapour_pressure",
+                        range_min_k: r.min_k,
+                        range_max_k: r.max_k,
+                        temperature_k: t_k,
+                    },
+                );
+            }
+            if t_k > c.critical_temperature_k() {
+                push_unique(
+                    out,
+                    Warning::Supercritical {
+                        component: c.name().to_string(),
+                        critical_temperature_k: c.critical_temperature_k(),
+                        temperature_k: t_k,
+                    },
+                );
+            }
+        }
+        if p_pa > RAOULT_PRESSURE_LIMIT_PA {
+            push_unique(
+                out,
+                Warning::HighPressure {
+                    pressure_pa: p_pa,
+                    limit_pa: RAOULT_PRESSURE_LIMIT_PA,
+                },
+            );
+        }
+    }
+
+    fn component_name(&self, index: usize) -> String {
+        self.components
+            .get(index)
+            .map_or_else(|| format!("component {}", index + 1), |c| c.name().to_string())
+    }
+
+    /// Each component's saturation temperature at `p_pa` from the Clausius–Clapeyron line
+    /// through its normal boiling point; the bubble and dew points lie between the lowest
+    /// and the highest.
+    fn temperature_hint(&self, p_pa: f64) -> Option<(f64, f64)> {
+        let (mut lo, mut hi) = (f64::INFINITY, 0.0f64);
+        for c in &self.components {
+            let tb = c.normal_boiling_point_k();
+            let (ln_pb, slope) = c.vapour_pressure().ln_psat_with_slope(tb);
+            let b = slope * tb * tb;
+            let inv = 1.0 / tb - (p_pa.ln() - ln_pb) / b;
+            let t = if inv > 0.0 { 1.0 / inv } else { 10.0 * c.critical_temperature_k() };
+            if t.is_finite() && t > 0.0 {
+                lo = lo.min(t);
+                hi = hi.max(t);
+            }
+        }
+        (lo.is_finite() && hi > 0.0).then_some((lo, hi))
+    }
+}
+
+/// Fixed K-values given by the caller (plant data, charts): the same at every T and P.
+///
+/// ```
+/// use flashduty::equilibrium::{GivenK, KValueModel, KValues};
+/// let m = GivenK::new(vec![2.0, 0.5]);
+/// let mut kv = KValues::new(2);
+/// m.k_values(300.0, 1e5, &[], &[], &mut kv);
+/// assert_eq!(kv.k, vec![2.0, 0.5]);
+/// ```
+#[derive(Debug, Clone, PartialEq)]
+pub struct GivenK {
+    k: Vec<f64>,
+}
+
+impl GivenK {
+    /// K-values, one per component.
+    pub fn new(k: Vec<f64>) -> Self {
+        Self { k }
+    }
+}
+
+impl KValueModel for GivenK {
+    fn component_count(&self) -> usize {
+        self.k.len()
+    }
+    fn k_values(&self, _t_k: f64, _p_pa: f64, _liquid: &[f64], _vapour: &[f64], out: &mut KValues) {
+        out.k.copy_from_slice(&self.k);
+        out.dln_k_dt.iter_mut().for_each(|d| *d = 0.0);
+        out.dln_k_dp.iter_mut().for_each(|d| *d = 0.0);
+    }
+}

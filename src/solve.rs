@@ -1,0 +1,142 @@
+//! One-dimensional root finding shared by the flash and energy layers: Newton's method
+//! inside a bracket, with bisection whenever a step would leave it, and a hard cap.
+
+/// What a bracketed search found.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub(crate) struct Root {
+    /// The root.
+    pub x: f64,
+    /// Steps taken.
+    pub iterations: u32,
+    /// Function evaluations.
+    pub evaluations: u32,
+}
+
+/// The hard cap on steps. With bisection on every step that Newton cannot take, 200 steps
+/// shrink any finite bracket below the spacing of floats.
+const MAX_STEPS: u32 = 200;
+
+/// Finds the root of an increasing function `f` (returning value and slope) in
+/// `[lo, hi]`, given `f(lo) <= 0 <= f(hi)`, starting from `x0`. Stops when the Newton step
+/// is below `x_tol` or the bracket is narrower than `x_tol`. Always terminates.
+pub(crate) fn bracketed_newton(
+    mut f: impl FnMut(f64) -> (f64, f64),
+    mut lo: f64,
+    mut hi: f64,
+    x0: f64,
+    x_tol: f64,
+) -> Root {
+    let mut x = if x0 > lo && x0 < hi { x0 } else { 0.5 * (lo + hi) };
+    let mut iterations = 0;
+    let mut evaluations = 0;
+    while iterations < MAX_STEPS {
+        let (v, dv) = f(x);
+        evaluations += 1;
+        iterations += 1;
+        if v == 0.0 {
+            break;
+        }
+        if v < 0.0 {
+            lo = x;
+        } else {
+            hi = x;
+        }
+        let newton = x - v / dv;
+        let next = if dv > 0.0 && newton.is_finite() && newton > lo && newton < hi {
+            if (newton - x).abs() <= x_tol {
+                x = newton;
+                break;
+            }
+            newton
+        } else {
+            0.5 * (lo + hi)
+        };
+        if hi - lo <= x_tol || next <= lo || next >= hi {
+            x = next.clamp(lo, hi);
+            break;
+        }
+        x = next;
+    }
+    Root {
+        x,
+        iterations,
+        evaluations,
+    }
+}
+
+/// Widens `[lo, hi]` geometrically (factor `grow` on each side's distance from the
+/// other) until `f(lo) <= 0 <= f(hi)` for an increasing `f`, keeping inside
+/// `[min, max]`. Returns the bracket and the evaluations made, or `None` if `f` does not
+/// change sign within `[min, max]`.
+pub(crate) fn expand_bracket(
+    mut f: impl FnMut(f64) -> f64,
+    mut lo: f64,
+    mut hi: f64,
+    min: f64,
+    max: f64,
+) -> Option<(f64, f64, u32)> {
+    lo = lo.clamp(min, max);
+    hi = hi.clamp(min, max);
+    if lo > hi {
+        std::mem::swap(&mut lo, &mut hi);
+    }
+    let mut evaluations = 0;
+    let mut f_lo = f(lo);
+    let mut f_hi = f(hi);
+    evaluations += 2;
+    for _ in 0..100 {
+        if f_lo.is_nan() || f_hi.is_nan() {
+            return None;
+        }
+        if f_lo <= 0.0 && f_hi >= 0.0 {
+            return Some((lo, hi, evaluations));
+        }
+        let width = (hi - lo).max(1e-3 * hi.abs().max(1.0));
+        if f_lo > 0.0 {
+            if lo <= min {
+                return None;
+            }
+            hi = lo;
+            f_hi = f_lo;
+            lo = (lo - width).max(min);
+            f_lo = f(lo);
+        } else {
+            if hi >= max {
+                return None;
+            }
+            lo = hi;
+            f_lo = f_hi;
+            hi = (hi + width).min(max);
+            f_hi = f(hi);
+        }
+        evaluations += 1;
+    }
+    None
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn finds_cube_root() {
+        let r = bracketed_newton(|x| (x * x * x - 2.0, 3.0 * x * x), 0.0, 2.0, 1.0, 1e-14);
+        assert!((r.x - 2f64.cbrt()).abs() < 1e-14);
+        assert!(r.iterations < 10);
+    }
+
+    #[test]
+    fn survives_a_flat_function() {
+        // Zero slope everywhere but a jump: bisection must still converge.
+        let r = bracketed_newton(|x| (if x < 0.3 { -1.0 } else { 1.0 }, 0.0), 0.0, 1.0, 0.9, 1e-12);
+        assert!((r.x - 0.3).abs() < 1e-11, "{}", r.x);
+    }
+
+    #[test]
+    fn expands_and_gives_up() {
+        let b = expand_bracket(|x| x - 10.0, 0.0, 1.0, -100.0, 100.0).unwrap();
+        assert!(b.0 <= 10.0 && b.1 >= 10.0);
+        assert!(expand_bracket(|x| x - 1000.0, 0.0, 1.0, -100.0, 100.0).is_none());
+        assert!(expand_bracket(|_| f64::NAN, 0.0, 1.0, -100.0, 100.0).is_none());
+    }
+}

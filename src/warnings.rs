@@ -1,0 +1,130 @@
+//! Machine-readable warnings that travel with every result: what an engineer needs to know
+//! before trusting a number.
+
+use serde::Serialize;
+use std::fmt;
+
+/// The pressure above which Raoult's law is commonly doubted, Pa (about 5 bar; common
+/// practice, no source).
+pub const RAOULT_PRESSURE_LIMIT_PA: f64 = 5e5;
+
+/// One warning attached to a result.
+///
+/// ```
+/// use flashduty::warnings::Warning;
+/// let w = Warning::HighPressure { pressure_pa: 8e5, limit_pa: 5e5 };
+/// assert!(w.to_string().contains("Raoult"));
+/// let json = serde_json::to_string(&w).unwrap();
+/// assert!(json.contains("\"kind\":\"high-pressure\""));
+/// ```
+#[derive(Debug, Clone, PartialEq, Serialize)]
+#[serde(tag = "kind", rename_all = "kebab-case")]
+pub enum Warning {
+    /// A correlation was evaluated outside the temperature range it was fitted over.
+    CorrelationExtrapolated {
+        /// The component.
+        component: String,
+        /// Which correlation: `vapour_pressure`, `liquid_heat_capacity`,
+        /// `vapour_heat_capacity` or `latent_heat`.
+        correlation: &'static str,
+        /// Low end of the fitted range, K.
+        range_min_k: f64,
+        /// High end of the fitted range, K.
+        range_max_k: f64,
+        /// The temperature it was evaluated at, K.
+        temperature_k: f64,
+    },
+    /// A component is above its critical temperature: as a liquid it is hypothetical, and
+    /// Raoult's law is then a rough extrapolation.
+    Supercritical {
+        /// The component.
+        component: String,
+        /// Its critical temperature, K.
+        critical_temperature_k: f64,
+        /// The temperature, K.
+        temperature_k: f64,
+    },
+    /// The pressure is above about 5 bar, where Raoult's law is commonly doubted.
+    HighPressure {
+        /// The pressure, Pa.
+        pressure_pa: f64,
+        /// The limit used, Pa.
+        limit_pa: f64,
+    },
+    /// The paths from the reference state disagree: the liquid Cp, vapour Cp and latent
+    /// heat data of a component are not consistent with each other.
+    PathSpread {
+        /// The component.
+        component: String,
+        /// Largest spread between vaporisation paths, J/mol.
+        spread_j_per_mol: f64,
+        /// The spread relative to the latent heat.
+        relative: f64,
+    },
+}
+
+impl fmt::Display for Warning {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        match self {
+            Warning::CorrelationExtrapolated {
+                component,
+                correlation,
+                range_min_k,
+                range_max_k,
+                temperature_k,
+            } => write!(
+                f,
+                "{component}: {correlation} used at {temperature_k:.2} K, outside its range {range_min_k:.2}–{range_max_k:.2} K (extrapolated)"
+            ),
+            Warning::Supercritical {
+                component,
+                critical_temperature_k,
+                temperature_k,
+            } => write!(
+                f,
+                "{component}: {temperature_k:.2} K is above its critical temperature {critical_temperature_k:.2} K; Raoult's law is a rough extrapolation here"
+            ),
+            Warning::HighPressure { pressure_pa, limit_pa } => write!(
+                f,
+                "pressure {:.1} kPa is above {:.0} kPa, where Raoult's law is commonly doubted",
+                pressure_pa / 1e3,
+                limit_pa / 1e3
+            ),
+            Warning::PathSpread {
+                component,
+                spread_j_per_mol,
+                relative,
+            } => write!(
+                f,
+                "{component}: enthalpy paths differ by {spread_j_per_mol:.0} J/mol ({:.1} % of the latent heat); its Cp and latent-heat data disagree",
+                100.0 * relative
+            ),
+        }
+    }
+}
+
+/// Adds `w` to `list` unless an equal warning for the same component and correlation is
+/// already there (the first occurrence is kept).
+pub(crate) fn push_unique(list: &mut Vec<Warning>, w: Warning) {
+    let same = |a: &Warning| match (a, &w) {
+        (
+            Warning::CorrelationExtrapolated {
+                component: c1,
+                correlation: k1,
+                ..
+            },
+            Warning::CorrelationExtrapolated {
+                component: c2,
+                correlation: k2,
+                ..
+            },
+        ) => c1 == c2 && k1 == k2,
+        (Warning::Supercritical { component: c1, .. }, Warning::Supercritical { component: c2, .. }) => c1 == c2,
+        (Warning::HighPressure { .. }, Warning::HighPressure { .. }) => true,
+        (Warning::PathSpread { component: c1, .. }, Warning::PathSpread { component: c2, .. }) => c1 == c2,
+        _ => false,
+    };
+    if !list.iter().any(same) {
+        list.push(w);
+    }
+}
