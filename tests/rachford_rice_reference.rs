@@ -29,7 +29,8 @@ type Big = FBig<HalfEven>;
 /// Binary digits of the reference arithmetic.
 const PREC: usize = 200;
 /// Cases in the run.
-const CASES: u64 = 10_000;
+const CASES: u64 = 2000;
+static EVALS: std::sync::atomic::AtomicU64 = std::sync::atomic::AtomicU64::new(0);
 
 fn big(v: f64) -> Big {
     Big::try_from(v).expect("finite input").with_precision(PREC).value()
@@ -232,6 +233,7 @@ impl Problem {
 
     /// F and F' at β (components with z = 0 are skipped).
     fn f_and_slope(&self, beta: &Big, want_slope: bool) -> (Big, Big) {
+        EVALS.fetch_add(1, std::sync::atomic::Ordering::Relaxed);
         let mut f = big(0.0);
         let mut df = big(0.0);
         for (z, t) in self.zn.iter().zip(&self.t) {
@@ -434,7 +436,9 @@ fn ten_thousand_cases_against_200_bit_reference() {
             .unwrap_or_else(|e| panic!("case {case} ({kind:?}): {e}; z = {z:?}, K = {k:?}"));
         max_iterations = max_iterations.max(s.iterations);
         let problem = Problem::new(&z, &k);
+        let e0 = EVALS.load(std::sync::atomic::Ordering::Relaxed); let t0 = std::time::Instant::now();
         let r = problem.solve(&k);
+        if case < 2000 { eprintln!("T {:?} n={} evals={} t={:?}", kind, n, EVALS.load(std::sync::atomic::Ordering::Relaxed)-e0, t0.elapsed()); }
         let what = || format!("case {case} ({kind:?}): z = {z:?}, K = {k:?}, ours β = {:e}, 1−β = {:e}, {:?}", s.vapour_fraction, s.liquid_fraction, s.phase);
 
         // The brief's tolerances.

@@ -1,0 +1,2 @@
+//! The flashduty command-line tool (being written).
+fn main() {}
