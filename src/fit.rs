@@ -872,7 +872,7 @@ impl AntoineProfile {
         let mut x = Vec::with_capacity(self.t.len());
         for &t in &self.t {
             let d = t + c;
-            if !(d > 0.0) {
+            if d.is_nan() || d <= 0.0 {
                 return None;
             }
             x.push(1.0 / d);
@@ -884,7 +884,7 @@ impl AntoineProfile {
             sxx += (xi - xm) * (xi - xm);
             sxy += (xi - xm) * (yi - ym);
         }
-        if !(sxx > 0.0) {
+        if sxx.is_nan() || sxx <= 0.0 {
             return None;
         }
         // Centred simple regression ln P = ym + β (x − xm): a = ym − β xm, b = −β.

@@ -331,7 +331,8 @@ pub fn solve_into(
         }
         for i in 0..n {
             y[i] = zn(i);
-            x[i] = y[i] / k[i];
+            // A component with zᵢ = 0 has xᵢ = 0 (0/0 when also Kᵢ = 0).
+            x[i] = if y[i] == 0.0 { 0.0 } else { y[i] / k[i] };
         }
         return Ok(SplitSummary {
             phase: Phase::Vapour,
@@ -391,11 +392,12 @@ pub fn solve_into(
             let denominator = dg + g * (1.0 / (s - problem.pole_lo) - 1.0 / (problem.pole_hi - s));
             let step = g / denominator;
             let candidate = s - step;
+            if candidate.is_finite() && step.abs() <= 2.0 * f64::EPSILON * s {
+                // Converged; the step may round onto the bracket end just moved to s.
+                s = candidate.clamp(lo, hi);
+                break;
+            }
             if candidate > lo && candidate < hi && candidate.is_finite() {
-                if step.abs() <= 2.0 * f64::EPSILON * candidate {
-                    s = candidate;
-                    break;
-                }
                 candidate
             } else {
                 float_midpoint(lo, hi)
@@ -482,8 +484,14 @@ impl<'a> Oriented<'a> {
     }
 
     /// The Leibovici–Neoschil bounds on s, from xᵢ ≤ 1 and yᵢ ≤ 1.
+    ///
+    /// Each bound is widened by its round-off, (2n + 8)ε times the size of the terms of its
+    /// numerator: the normalised zᵢ sum to 1 only within about nε, and 1 − zᵢ or Kzᵢ − 1
+    /// cancel. Without the margin a bound can land on the wrong side of a root that lies
+    /// within round-off of it (a binary with one K = 0 has its root exactly on the bound).
     fn window(&self) -> (f64, f64) {
         let (mut lo, mut hi) = (f64::NEG_INFINITY, f64::INFINITY);
+        let u = (2.0 * self.z.len() as f64 + 8.0) * f64::EPSILON;
         for i in 0..self.z.len() {
             let zi = self.z[i] * self.inv_sum;
             if zi == 0.0 {
@@ -493,16 +501,16 @@ impl<'a> Oriented<'a> {
             match self.orientation {
                 Orientation::Liquid => {
                     if k > 1.0 {
-                        lo = lo.max((k * zi - 1.0) / (k - 1.0));
+                        lo = lo.max((k * zi - 1.0 - u * (1.0 + k * zi)) / (k - 1.0));
                     } else if k < 1.0 {
-                        hi = hi.min((1.0 - zi) / (1.0 - k));
+                        hi = hi.min((1.0 - zi + u * (1.0 + zi)) / (1.0 - k));
                     }
                 }
                 Orientation::Vapour => {
                     if k < 1.0 {
-                        lo = lo.max((zi - k) / (1.0 - k));
+                        lo = lo.max((zi - k - u * (zi + k)) / (1.0 - k));
                     } else if k > 1.0 {
-                        hi = hi.min((1.0 - zi) * k / (k - 1.0));
+                        hi = hi.min((1.0 - zi + u * (1.0 + zi)) * k / (k - 1.0));
                     }
                 }
             }

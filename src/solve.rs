@@ -42,11 +42,13 @@ pub(crate) fn bracketed_newton(
             hi = x;
         }
         let newton = x - v / dv;
-        let next = if dv > 0.0 && newton.is_finite() && newton > lo && newton < hi {
-            if (newton - x).abs() <= x_tol {
-                x = newton;
-                break;
-            }
+        let usable = dv > 0.0 && newton.is_finite();
+        if usable && (newton - x).abs() <= x_tol {
+            // Converged; the step may round onto the bracket end just moved to x.
+            x = newton.clamp(lo, hi);
+            break;
+        }
+        let next = if usable && newton > lo && newton < hi {
             newton
         } else {
             0.5 * (lo + hi)
