@@ -433,6 +433,7 @@ fn ten_thousand_cases_against_200_bit_reference() {
     let mut per_kind = [0u64; 8];
     let mut max_iterations = (0, 0);
     let mut iteration_total = 0u64;
+    let mut iterations_per_kind = [0u64; 8];
     for case in 0..CASES {
         let kind = KINDS[(case % 8) as usize];
         per_kind[(case % 8) as usize] += 1;
@@ -446,6 +447,10 @@ fn ten_thousand_cases_against_200_bit_reference() {
             max_iterations = (s.iterations, case);
         }
         iteration_total += u64::from(s.iterations);
+        iterations_per_kind[(case % 8) as usize] += u64::from(s.iterations);
+        if std::env::var("RR_DUMP").is_ok_and(|v| v == case.to_string()) {
+            println!("DUMP z = {z:?}\nK = {k:?}");
+        }
         let problem = Problem::new(&z, &k);
         let r = problem.solve(&k);
         let what = || format!("case {case} ({kind:?}): z = {z:?}, K = {k:?}, ours β = {:e}, 1−β = {:e}, {:?}", s.vapour_fraction, s.liquid_fraction, s.phase);
@@ -532,6 +537,7 @@ fn ten_thousand_cases_against_200_bit_reference() {
     }
     println!("cases per kind {per_kind:?} ({KINDS:?})");
     println!("two-phase {two_phase}, single-phase {single}, of which β* within 1e-6 of 0 or 1: {near_boundary}; phase label decided within round-off of the boundary: {label_at_boundary}");
+    println!("mean iterations per kind {:?}", iterations_per_kind.map(|v| v as f64 / (CASES / 8) as f64));
     println!("iterations: max {} (case {}), mean {:.2}", max_iterations.0, max_iterations.1, iteration_total as f64 / CASES as f64);
     println!("worst |β − β*| = {:e} (case {})", worst_beta.value, worst_beta.case);
     println!("worst |(1−β) − (1−β*)| = {:e} (case {})", worst_gamma.value, worst_gamma.case);

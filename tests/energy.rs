@@ -1,0 +1,339 @@
+//! Heater duty, the duty-specified flash and heating curves: against IAPWS-IF97 and
+//! handbook latent heats, and as a state function.
+
+mod common;
+
+use common::{fixture, num};
+use flashduty::energy::{
+    DutyOptions, EnergyError, ReferencePhase, ReferenceState, Stream, StreamState, VaporisationPath, heater_duty,
+    heating_curve, outlet_for_duty,
+};
+use flashduty::equilibrium::{FlashSpec, Raoult, flash};
+use flashduty::library::Library;
+use flashduty::properties::{HeatCapacity, LatentHeat};
+use flashduty::rachford_rice::Phase;
+use flashduty::units::{MassFlow, MolarFlow, Power, Pressure, Temperature};
+use proptest::prelude::*;
+
+const ATM: f64 = 101_325.0;
+
+fn tp(t: f64, p: f64) -> StreamState {
+    StreamState::TemperaturePressure {
+        temperature: Temperature::new("T", t).unwrap(),
+        pressure: Pressure::new("P", p).unwrap(),
+    }
+}
+
+fn stream(names: &[&str], z: &[f64]) -> Stream {
+    Stream::from_names(names, z, MolarFlow::new("flow", 1.0).unwrap()).unwrap()
+}
+
+/// IAPWS-IF97 enthalpy of water at 101.325 kPa (tests/fixtures/iapws_water_1atm.csv, made by
+/// tools/make_iapws_water.py with iapws 1.5.5), J/mol, at a tabulated temperature.
+fn iapws_h(t: f64) -> f64 {
+    fixture("iapws_water_1atm.csv")
+        .iter()
+        .find(|r| (num(r, "T_K") - t).abs() < 1e-9 && !r["phase"].starts_with("saturated"))
+        .map(|r| num(r, "h_J_per_mol"))
+        .unwrap_or_else(|| panic!("no IAPWS row at {t} K"))
+}
+
+/// Water heated from 20 °C to 150 °C at 1 atm: within 1.5 % of IAPWS-IF97; liquid-only
+/// heating (20 → 95 °C) within 2 %. Vapour-only heating (105 → 150 °C) is an ideal-gas
+/// calculation against real steam: IAPWS-IF97 steam at 1 atm just above saturation has a
+/// heat capacity several per cent above the ideal-gas value, which no ideal-gas model can
+/// give. The measured deviation, about −5.3 %, is asserted within 6 % and reported in the
+/// README; the 4 % aim is not met, for that physical reason.
+#[test]
+fn water_duty_against_iapws() {
+    let s = stream(&["water"], &[1.0]);
+    let o = DutyOptions::default();
+    let cases = [
+        ("20 -> 150 degC", 293.15, 423.15, 0.015),
+        ("liquid 20 -> 95 degC", 293.15, 368.15, 0.02),
+        ("vapour 105 -> 150 degC", 378.15, 423.15, 0.06),
+    ];
+    for (what, t1, t2, tol) in cases {
+        let r = heater_duty(&s, tp(t1, ATM), tp(t2, ATM), o).unwrap();
+        let reference = iapws_h(t2) - iapws_h(t1);
+        let dev = r.duty_w / reference - 1.0;
+        println!("water {what}: {:.1} W vs IAPWS-IF97 {reference:.1} W ({:+.2} %)", r.duty_w, 100.0 * dev);
+        assert!(dev.abs() < tol, "{what}: {dev}");
+    }
+}
+
+/// The latent heat at the normal boiling point, read as the duty across Tb ± 0.01 K at
+/// 1 atm, within 3 % of the CRC Handbook value (tests/fixtures/handbook_latent_heat_tb.csv,
+/// CRC 97th ed. "Enthalpy of Vaporization", from memory) for every library component.
+#[test]
+fn latent_heat_read_as_duty_matches_handbook() {
+    let rows = fixture("handbook_latent_heat_tb.csv");
+    assert!(rows.len() >= 31);
+    let mut worst = (0.0f64, String::new());
+    for row in rows {
+        let name = row["name"].as_str();
+        let s = stream(&[name], &[1.0]);
+        let model = Raoult::from_names(&[name]).unwrap();
+        let p = Pressure::new("P", ATM).unwrap();
+        let tb = flash(&model, &[1.0], FlashSpec::BubbleTemperature { pressure: p }).unwrap().temperature_k;
+        let r = heater_duty(&s, tp(tb - 0.01, ATM), tp(tb + 0.01, ATM), DutyOptions::default()).unwrap();
+        let reference = num(&row, "latent_heat_J_per_mol");
+        let dev = r.duty_w / reference - 1.0;
+        assert!(dev.abs() < 0.03, "{name}: {} vs {reference} J/mol", r.duty_w);
+        if dev.abs() > worst.0.abs() {
+            worst = (dev, name.to_string());
+        }
+    }
+    println!("worst latent heat at Tb vs CRC: {:+.2} % ({})", 100.0 * worst.0, worst.1);
+}
+
+fn mixtures() -> impl Strategy<Value = (Vec<String>, Vec<f64>)> {
+    let names: Vec<String> = Library::builtin().components().map(|c| c.name().to_string()).collect();
+    (1usize..=5)
+        .prop_flat_map(move |n| {
+            (
+                proptest::sample::subsequence(names.clone(), n),
+                proptest::collection::vec(0.05f64..1.0, n),
+            )
+        })
+        .prop_map(|(names, w)| {
+            let s: f64 = w.iter().sum();
+            (names, w.iter().map(|v| v / s).collect())
+        })
+}
+
+fn options(phase: bool, t_ref: f64, path: VaporisationPath) -> DutyOptions {
+    DutyOptions {
+        reference: ReferenceState {
+            phase: if phase { ReferencePhase::Vapour } else { ReferencePhase::Liquid },
+            temperature_k: t_ref,
+        },
+        path,
+    }
+}
+
+fn rel(a: f64, b: f64) -> f64 {
+    (a - b).abs() / a.abs().max(b.abs()).max(1e-300)
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(200))]
+
+    /// Q(A→B) + Q(B→C) = Q(A→C) to 1e-9; for paths (a) and (b) the duty does not depend on
+    /// the reference temperature or phase.
+    #[test]
+    fn duty_is_a_state_function(
+        (names, z) in mixtures(),
+        ta in 250.0f64..550.0, tb in 250.0f64..550.0, tc in 250.0f64..550.0,
+        pa in 2e4f64..5e5, pb in 2e4f64..5e5, pc in 2e4f64..5e5,
+        t_ref in 250.0f64..350.0, vapour_ref in any::<bool>(),
+        path_index in 0usize..3,
+    ) {
+        let s = Stream::from_names(&names, &z, MolarFlow::new("flow", 3.0).unwrap()).unwrap();
+        let path = VaporisationPath::ALL[path_index];
+        let o = options(vapour_ref, t_ref, path);
+        let (a, b, c) = (tp(ta, pa), tp(tb, pb), tp(tc, pc));
+        let ab = heater_duty(&s, a, b, o).unwrap().duty_w;
+        let bc = heater_duty(&s, b, c, o).unwrap().duty_w;
+        let ac = heater_duty(&s, a, c, o).unwrap().duty_w;
+        let scale = ab.abs().max(bc.abs()).max(ac.abs()).max(1.0);
+        prop_assert!((ab + bc - ac).abs() <= 1e-9 * scale, "{ab} + {bc} != {ac}");
+        if path != VaporisationPath::ReferenceTemperature {
+            let base = heater_duty(&s, a, c, DutyOptions { path, ..DutyOptions::default() }).unwrap().duty_w;
+            prop_assert!((ac - base).abs() <= 1e-9 * base.abs().max(1.0), "{ac} vs {base} ({o:?})");
+        }
+    }
+
+    /// The duty-specified flash inverts the heater duty: outlet T within 1e-6 K and vapour
+    /// fraction within 1e-9, including pure components across their boiling point.
+    #[test]
+    fn duty_specified_flash_inverts_heater_duty(
+        (names, z) in mixtures(),
+        t_in in 260.0f64..400.0,
+        log_p in (3e4f64).ln()..(4e5f64).ln(),
+        beta_out in 0.0f64..1.0,
+        mode in 0u8..3,
+    ) {
+        let s = Stream::from_names(&names, &z, MolarFlow::new("flow", 2.0).unwrap()).unwrap();
+        let p = Pressure::new("P", log_p.exp()).unwrap();
+        let model = Raoult::from_names(&names).unwrap();
+        let bub = flash(&model, &z, FlashSpec::BubbleTemperature { pressure: p }).unwrap().temperature_k;
+        let dew = flash(&model, &z, FlashSpec::DewTemperature { pressure: p }).unwrap().temperature_k;
+        // Outlet: subcooled, two-phase (on β, so pure components are covered) or superheated.
+        let outlet = match mode {
+            0 => tp(bub - 5.0 - 40.0 * beta_out, p.pascal()),
+            1 => StreamState::PressureVapourFraction { pressure: p, vapour_fraction: beta_out },
+            _ => tp(dew + 5.0 + 40.0 * beta_out, p.pascal()),
+        };
+        let inlet = tp(t_in, p.pascal());
+        let forward = heater_duty(&s, inlet, outlet, DutyOptions::default()).unwrap();
+        let back = outlet_for_duty(&s, inlet, Power::new("duty", forward.duty_w).unwrap(), p, DutyOptions::default()).unwrap();
+        prop_assert!((back.outlet.temperature_k - forward.outlet.temperature_k).abs() < 1e-6,
+            "T {} vs {}", back.outlet.temperature_k, forward.outlet.temperature_k);
+        prop_assert!((back.outlet.vapour_fraction - forward.outlet.vapour_fraction).abs() < 1e-9,
+            "beta {} vs {}", back.outlet.vapour_fraction, forward.outlet.vapour_fraction);
+    }
+
+    /// dQ/dT_out, analytic, agrees with a central difference.
+    #[test]
+    fn duty_slope_matches_finite_difference((names, z) in mixtures(), beta in 0.05f64..0.95, side in 0u8..3) {
+        let s = Stream::from_names(&names, &z, MolarFlow::new("flow", 1.5).unwrap()).unwrap();
+        let p = Pressure::new("P", ATM).unwrap();
+        let model = Raoult::from_names(&names).unwrap();
+        // Inside the two-phase region the slope is finite only where it has a width.
+        let width = flash(&model, &z, FlashSpec::DewTemperature { pressure: p }).unwrap().temperature_k
+            - flash(&model, &z, FlashSpec::BubbleTemperature { pressure: p }).unwrap().temperature_k;
+        prop_assume!(side != 1 || width > 0.5);
+        let t_out = match side {
+            0 => flash(&model, &z, FlashSpec::BubbleTemperature { pressure: p }).unwrap().temperature_k - 10.0,
+            1 => flash(&model, &z, FlashSpec::PressureVapourFraction { pressure: p, vapour_fraction: beta }).unwrap().temperature_k,
+            _ => flash(&model, &z, FlashSpec::DewTemperature { pressure: p }).unwrap().temperature_k + 10.0,
+        };
+        let inlet = tp(300.0, ATM);
+        let r = heater_duty(&s, inlet, tp(t_out, ATM), DutyOptions::default()).unwrap();
+        let slope = r.dduty_dt_out_w_per_k.unwrap();
+        let h = if side == 1 { 1e-6 } else { 1e-3 };
+        let up = heater_duty(&s, inlet, tp(t_out + h, ATM), DutyOptions::default()).unwrap().duty_w;
+        let down = heater_duty(&s, inlet, tp(t_out - h, ATM), DutyOptions::default()).unwrap().duty_w;
+        let fd = (up - down) / (2.0 * h);
+        prop_assert!(rel(fd, slope) < 1e-4, "fd {fd} vs analytic {slope}");
+    }
+}
+
+/// Pure components: the duty-specified flash across the boiling point, where temperature is
+/// flat, solved on the vapour fraction; and zero duty (adiabatic) returns the inlet.
+#[test]
+fn pure_component_through_its_boiling_point() {
+    let s = stream(&["n-heptane"], &[1.0]);
+    let p = Pressure::new("P", ATM).unwrap();
+    let o = DutyOptions::default();
+    let sat_l = StreamState::PressureVapourFraction { pressure: p, vapour_fraction: 0.0 };
+    let sat_v = StreamState::PressureVapourFraction { pressure: p, vapour_fraction: 1.0 };
+    let latent = heater_duty(&s, sat_l, sat_v, o).unwrap().duty_w;
+    for frac in [0.0, 1e-6, 0.25, 0.5, 0.999_999, 1.0] {
+        let r = outlet_for_duty(&s, sat_l, Power::new("duty", frac * latent).unwrap(), p, o).unwrap();
+        assert!((r.outlet.vapour_fraction - frac).abs() < 1e-9, "{frac}: {}", r.outlet.vapour_fraction);
+    }
+    let zero = outlet_for_duty(&s, tp(330.0, ATM), Power::new("duty", 0.0).unwrap(), p, o).unwrap();
+    assert!((zero.outlet.temperature_k - 330.0).abs() < 1e-9);
+    assert_eq!(zero.outlet.phase, Phase::Liquid);
+}
+
+/// A worked example of our own invention: a hydrocarbon preheater. 3.6 kmol/h (1 mol/s) of
+/// n-hexane/n-heptane/n-octane 30/40/30 mol % is heated from 25 °C to 80 °C at 2 bar (all
+/// liquid). Hand check: with a liquid reference at 25 °C the inlet enthalpies are zero, and
+/// each outlet row is ∫Cp,liq dT from 298.15 K to 353.15 K, which is checked here by
+/// Simpson's rule on the library's Cp (independent of the closed-form integrals), times the
+/// component flow.
+#[test]
+fn worked_example_hydrocarbon_preheater() {
+    let names = ["n-hexane", "n-heptane", "n-octane"];
+    let z = [0.3, 0.4, 0.3];
+    let s = Stream::from_names(&names, &z, MolarFlow::parse("flow", "3.6 kmol/h").unwrap()).unwrap();
+    let r = heater_duty(&s, tp(298.15, 2e5), tp(353.15, 2e5), DutyOptions::default()).unwrap();
+    assert_eq!(r.outlet.phase, Phase::Liquid);
+    let lib = Library::builtin();
+    let mut hand = 0.0;
+    for (name, zi) in names.iter().zip(z) {
+        let cp = lib.get(name).unwrap().liquid_heat_capacity();
+        let n = 1000;
+        let h = (353.15 - 298.15) / n as f64;
+        let mut acc = cp.cp(298.15) + cp.cp(353.15);
+        for i in 1..n {
+            acc += if i % 2 == 1 { 4.0 } else { 2.0 } * cp.cp(298.15 + i as f64 * h);
+        }
+        let dh = acc * h / 3.0;
+        let row = r.table.iter().find(|row| row.state == "outlet" && row.component == *name).unwrap();
+        assert!((row.enthalpy_j_per_mol - dh).abs() < 1e-6 * dh, "{name}");
+        assert!((row.flow_mol_s - zi).abs() < 1e-12);
+        hand += zi * dh;
+    }
+    assert!((r.duty_w - hand).abs() < 1e-6 * hand);
+    for row in r.table.iter().filter(|row| row.state == "inlet") {
+        assert!(row.enthalpy_j_per_mol.abs() < 1e-9);
+    }
+    println!("preheater duty {:.1} W", r.duty_w);
+}
+
+/// The enthalpy table is the audit trail: its rows add up to the duty, each row's split
+/// adds up to its enthalpy, and a vaporising row shows liquid sensible, latent and vapour
+/// sensible heat along the path. With path (a) the latent part is ΔHvap at Tb.
+#[test]
+fn enthalpy_table_adds_up() {
+    let s = stream(&["benzene", "toluene", "o-xylene"], &[0.3, 0.4, 0.3]);
+    let r = heater_duty(&s, tp(300.0, ATM), tp(390.0, ATM), DutyOptions::default()).unwrap();
+    assert_eq!(r.outlet.phase, Phase::TwoPhase);
+    let total: f64 = r.table.iter().map(|row| row.sign() * row.enthalpy_flow_w).sum();
+    assert!((total - r.duty_w).abs() < 1e-9 * r.duty_w.abs());
+    for row in &r.table {
+        let split = row.liquid_sensible_j_per_mol + row.latent_j_per_mol + row.vapour_sensible_j_per_mol;
+        assert!((split - row.enthalpy_j_per_mol).abs() < 1e-9 * row.enthalpy_j_per_mol.abs().max(1.0));
+        if row.phase == Phase::Vapour {
+            let c = Library::builtin().get(&row.component).unwrap();
+            let at_tb = c.latent_heat().latent_heat(c.normal_boiling_point_k());
+            assert_eq!(row.latent_j_per_mol, at_tb);
+        }
+    }
+    // Both phases of every component appear at the two-phase outlet.
+    assert_eq!(r.table.iter().filter(|row| row.state == "outlet").count(), 6);
+}
+
+#[test]
+fn path_spread_is_reported() {
+    let s = stream(&["water"], &[1.0]);
+    let r = heater_duty(&s, tp(293.15, ATM), tp(423.15, ATM), DutyOptions::default()).unwrap();
+    let ps = r.path_spread;
+    assert_eq!(ps.boiling_point_w, r.duty_w);
+    assert!(ps.spread_w >= 0.0 && ps.relative < 0.05, "{ps:?}");
+    println!("water 20 -> 150 degC path spread: {:.1} W ({:.2} %)", ps.spread_w, 100.0 * ps.relative);
+}
+
+#[test]
+fn heating_and_cooling_curves_have_breakpoints() {
+    let s = stream(&["n-pentane", "n-hexane", "n-heptane"], &[0.3, 0.4, 0.3]);
+    let c = heating_curve(&s, tp(290.0, ATM), tp(400.0, ATM), 21, DutyOptions::default()).unwrap();
+    assert_eq!(c.points.len(), 23);
+    let names: Vec<_> = c.points.iter().map(|p| p.breakpoint).filter(|b| !b.is_empty()).collect();
+    assert_eq!(names, ["bubble", "dew"]);
+    for w in c.points.windows(2) {
+        assert!(w[1].duty_w >= w[0].duty_w && w[1].temperature_k >= w[0].temperature_k - 1e-9);
+        assert!(w[1].vapour_fraction >= w[0].vapour_fraction - 1e-12);
+    }
+    let bubble = c.points.iter().find(|p| p.breakpoint == "bubble").unwrap();
+    assert_eq!(bubble.temperature_k, c.bubble_temperature_k);
+    let cooling = heating_curve(&s, tp(400.0, ATM), tp(290.0, ATM), 5, DutyOptions::default()).unwrap();
+    assert!(cooling.duty_w < 0.0);
+    assert!(cooling.points.windows(2).all(|w| w[1].temperature_k <= w[0].temperature_k + 1e-9));
+    assert!((cooling.duty_w + c.duty_w).abs() < 1e-9 * c.duty_w);
+}
+
+#[test]
+fn mass_flow_and_component_flows() {
+    let s = stream(&["water"], &[1.0])
+        .with_mass_flow(MassFlow::parse("flow", "18.015268 kg/h").unwrap())
+        .unwrap();
+    assert!((s.flow().mol_per_s() - 1000.0 / 3600.0).abs() < 1e-12);
+    let f = Stream::from_component_flows_names(&["benzene", "toluene"], &[2.0, 6.0]).unwrap();
+    assert_eq!(f.z(), &[0.25, 0.75]);
+}
+
+#[test]
+fn every_error_variant_is_reachable() {
+    let s = stream(&["benzene", "toluene"], &[0.5, 0.5]);
+    let e = heating_curve(&s, tp(300.0, ATM), tp(400.0, ATM), 1, DutyOptions::default()).unwrap_err();
+    assert!(matches!(e, EnergyError::TooFewPoints { value: 1 }) && e.to_string().contains("points"), "{e}");
+    let e = Stream::from_component_flows_names(&["benzene", "toluene"], &[1.0, -1.0]).unwrap_err();
+    assert!(matches!(e, EnergyError::BadFlow { index: 1, .. }) && e.to_string().contains("flows[1]"), "{e}");
+    let e = Stream::from_component_flows_names(&["benzene", "toluene"], &[0.0, 0.0]).unwrap_err();
+    assert!(matches!(e, EnergyError::BadFlow { .. }), "{e}");
+    let e = Stream::from_names(&["benzene", "tolune"], &[0.5, 0.5], MolarFlow::new("flow", 1.0).unwrap()).unwrap_err();
+    assert!(matches!(e, EnergyError::UnknownComponent(_)) && e.to_string().contains("toluene"), "{e}");
+    let e = Stream::from_names(&["benzene"], &[0.5, 0.5], MolarFlow::new("flow", 1.0).unwrap()).unwrap_err();
+    assert!(matches!(e, EnergyError::Flash(_)), "{e}");
+    let e = outlet_for_duty(&s, tp(300.0, ATM), Power::new("duty", 1e12).unwrap(), Pressure::new("P", ATM).unwrap(), DutyOptions::default()).unwrap_err();
+    assert!(matches!(e, EnergyError::DutyOutOfReach { .. }) && e.to_string().contains("duty"), "{e}");
+    let e = heater_duty(&s, tp(300.0, ATM), StreamState::PressureVapourFraction { pressure: Pressure::new("P", ATM).unwrap(), vapour_fraction: 2.0 }, DutyOptions::default()).unwrap_err();
+    assert!(e.to_string().contains("vapour_fraction"), "{e}");
+    let e = MassFlow::parse("flow", "-3 kg/h").map_err(EnergyError::from).unwrap_err();
+    assert!(matches!(e, EnergyError::Unit(_)), "{e}");
+}
