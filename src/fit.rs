@@ -505,13 +505,24 @@ pub struct Residual {
     pub relative_deviation: f64,
 }
 
+/// A fitted constant with its name in the report's equation.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct NamedConstant {
+    /// The name, as in [`FitReport::equation`].
+    pub name: &'static str,
+    /// The value, in the units of the equation.
+    pub value: f64,
+}
+
 /// How well a correlation fits its data.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct FitReport {
     /// The model: `antoine`, `extended` or `cp-polynomial`.
     pub model: &'static str,
-    /// Number of constants fitted.
-    pub constants: usize,
+    /// The equation the constants belong to, with its units.
+    pub equation: &'static str,
+    /// The fitted constants (for the extended form, E as given).
+    pub constants: Vec<NamedConstant>,
     /// The data's temperature range, which becomes the correlation's validity range.
     pub validity: ValidityRange,
     /// Per-point residuals, in data-row order.
@@ -532,16 +543,21 @@ impl fmt::Display for FitReport {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         writeln!(
             f,
-            "{} fit: {} points, {} constants, {}–{} K; max |dev| {:.4} % (data row {}), RMS {:.4} %",
+            "{} fit: {} points, {}–{} K; max |dev| {:.4} % (data row {}), RMS {:.4} %",
             self.model,
             self.residuals.len(),
-            self.constants,
             self.validity.min_k,
             self.validity.max_k,
             100.0 * self.max_abs_relative_deviation,
             self.max_deviation_row,
             100.0 * self.rms_relative_deviation
         )?;
+        let constants: Vec<String> = self
+            .constants
+            .iter()
+            .map(|c| format!("{} = {:e}", c.name, c.value))
+            .collect();
+        writeln!(f, "{}: {}", self.equation, constants.join(", "))?;
         for w in &self.warnings {
             writeln!(f, "warning: {w}")?;
         }
@@ -735,12 +751,20 @@ fn data_range(points: &[DataPoint]) -> ValidityRange {
     ValidityRange::new(lo, hi).unwrap_or(ValidityRange::UNBOUNDED)
 }
 
+fn named(names: &[&'static str], values: &[f64]) -> Vec<NamedConstant> {
+    names
+        .iter()
+        .zip(values)
+        .map(|(&name, &value)| NamedConstant { name, value })
+        .collect()
+}
+
 fn make_report(
     model: &'static str,
-    constants: usize,
+    equation: &'static str,
+    constants: Vec<NamedConstant>,
     points: &[DataPoint],
     validity: ValidityRange,
-    iterations: u64,
     warnings: Vec<FitWarning>,
     f: impl Fn(f64) -> f64,
 ) -> FitReport {
@@ -771,13 +795,14 @@ fn make_report(
     let rms = (sum2 / residuals.len().max(1) as f64).sqrt();
     FitReport {
         model,
+        equation,
         constants,
         validity,
         residuals,
         max_abs_relative_deviation: max,
         max_deviation_row: max_row,
         rms_relative_deviation: rms,
-        iterations,
+        iterations: 0,
         warnings,
     }
 }
@@ -994,7 +1019,10 @@ pub fn fit_antoine(points: &[DataPoint]) -> Result<AntoineFit, FitError> {
         });
     };
     if k == 0 || k == GRID - 1 {
-        warnings.push(FitWarning::ConstantAtSearchBound { constant: "C", value: c });
+        warnings.push(FitWarning::ConstantAtSearchBound {
+            constant: "C",
+            value: c,
+        });
     }
     let antoine = Antoine::from_published(AntoineForm::LnPascalKelvin, a, b, c, validity).ok_or_else(|| {
         FitError::Degenerate {
@@ -1004,7 +1032,17 @@ pub fn fit_antoine(points: &[DataPoint]) -> Result<AntoineFit, FitError> {
             ),
         }
     })?;
-    let report = make_report(MODEL, 3, points, validity, iterations, warnings, |t| antoine.psat_pa(t));
+    let constants = named(&["A", "B", "C"], &[a, b, c]);
+    let mut report = make_report(
+        MODEL,
+        "ln(P/Pa) = A - B/(T/K + C)",
+        constants,
+        points,
+        validity,
+        warnings,
+        |t| antoine.psat_pa(t),
+    );
+    report.iterations = iterations;
     Ok(AntoineFit { antoine, report })
 }
 
@@ -1077,7 +1115,15 @@ pub fn fit_extended(points: &[DataPoint], exponent: f64) -> Result<ExtendedFit, 
             why: format!("the fitted constants {constants:?} are not finite"),
         }
     })?;
-    let report = make_report(MODEL, 4, points, validity, 0, warnings, |t| model.psat_pa(t));
+    let report = make_report(
+        MODEL,
+        "ln(P/Pa) = A + B/(T/K) + C ln(T/K) + D (T/K)^E",
+        named(&["A", "B", "C", "D", "E"], &constants),
+        points,
+        validity,
+        warnings,
+        |t| model.psat_pa(t),
+    );
     Ok(ExtendedFit {
         model,
         constants,
@@ -1163,7 +1209,15 @@ pub fn fit_cp_polynomial(points: &[DataPoint], degree: usize) -> Result<CpFit, F
         model: MODEL,
         why: format!("the fitted coefficients {coefficients:?} are not finite"),
     })?;
-    let report = make_report(MODEL, n, points, validity, 0, warnings, |t| polynomial.cp(t));
+    let report = make_report(
+        MODEL,
+        "Cp/(J/(mol K)) = a + b (T/K) + c (T/K)^2 + d (T/K)^3 + e (T/K)^4",
+        named(&["a", "b", "c", "d", "e"], &coefficients),
+        points,
+        validity,
+        warnings,
+        |t| polynomial.cp(t),
+    );
     Ok(CpFit {
         polynomial,
         coefficients,
@@ -1249,8 +1303,9 @@ fn match_header(cell: &str, names: &[&str], unit_ok: impl Fn(&str) -> bool) -> O
         return Some(None);
     }
     for (i, _) in cell.match_indices('_') {
-        let (name, unit) = (&lower[..i], &cell[i + 1..]);
-        if names.contains(&name) && unit_ok(unit) {
+        // Split the cell itself: lower-casing may change byte offsets outside ASCII.
+        let (name, unit) = (cell[..i].to_lowercase(), &cell[i + 1..]);
+        if names.contains(&name.as_str()) && unit_ok(unit) {
             return Some(Some(unit.to_string()));
         }
     }
@@ -1313,8 +1368,10 @@ pub fn read_points_csv(text: &str, kind: DataKind) -> Result<Vec<DataPoint>, Fit
         .find_map(|(i, c)| match_header(c, TEMPERATURE_NAMES, temp_ok).map(|u| (i, u)))
         .ok_or_else(|| missing("temperature"))?;
     if let Some(u) = &t_unit {
-        units::to_si(QuantityKind::Temperature, &cells[t_col], 1.0, u)
-            .map_err(|source| FitError::CsvUnit { line: header_line, source })?;
+        units::to_si(QuantityKind::Temperature, &cells[t_col], 1.0, u).map_err(|source| FitError::CsvUnit {
+            line: header_line,
+            source,
+        })?;
     }
 
     // Value column and its conversion to SI.
@@ -1330,8 +1387,12 @@ pub fn read_points_csv(text: &str, kind: DataKind) -> Result<Vec<DataPoint>, Fit
                 None => (col, Box::new(|v| v)),
                 Some(u) => {
                     // Pressure units are all pure scales.
-                    let factor = units::to_si(QuantityKind::Pressure, &cells[col], 1.0, &u)
-                        .map_err(|source| FitError::CsvUnit { line: header_line, source })?;
+                    let factor = units::to_si(QuantityKind::Pressure, &cells[col], 1.0, &u).map_err(|source| {
+                        FitError::CsvUnit {
+                            line: header_line,
+                            source,
+                        }
+                    })?;
                     (col, Box::new(move |v| v * factor))
                 }
             }
@@ -1478,7 +1539,10 @@ impl ComponentChecks {
 
 #[derive(Debug, Clone)]
 enum VapourPressureEntry {
-    Antoine { antoine: Antoine, note: Option<String> },
+    Antoine {
+        antoine: Antoine,
+        note: Option<String>,
+    },
     Extended {
         constants: [f64; 5],
         range: ValidityRange,
@@ -1493,7 +1557,10 @@ enum HeatCapacityEntry {
         range: ValidityRange,
         note: Option<String>,
     },
-    Constant { value: f64, range: ValidityRange },
+    Constant {
+        value: f64,
+        range: ValidityRange,
+    },
 }
 
 #[derive(Debug, Clone)]
@@ -1817,7 +1884,11 @@ impl UserComponentBuilder {
         let omega = given("acentric_factor", self.omega)?;
         let tb = given("normal_boiling_point_K", self.tb)?;
 
-        let vapour_pressure = match self.vapour_pressure.as_ref().ok_or_else(|| missing("vapour_pressure"))? {
+        let vapour_pressure = match self
+            .vapour_pressure
+            .as_ref()
+            .ok_or_else(|| missing("vapour_pressure"))?
+        {
             VapourPressureEntry::Antoine { antoine, note } => {
                 let (a, b, c) = published_constants(antoine, self.antoine_form);
                 let r = antoine.validity();
@@ -2055,7 +2126,15 @@ mod tests {
 
     #[test]
     fn heat_capacity_units() {
-        for u in ["J/mol/K", "J/(mol K)", "J/(mol·K)", "J/mol-K", "J_per_mol_K", "kJ/kmol/K", "J/mol/degC"] {
+        for u in [
+            "J/mol/K",
+            "J/(mol K)",
+            "J/(mol·K)",
+            "J/mol-K",
+            "J_per_mol_K",
+            "kJ/kmol/K",
+            "J/mol/degC",
+        ] {
             assert_eq!(cp_unit_factor(u), Some(1.0), "{u}");
         }
         assert_eq!(cp_unit_factor("J/kmol/K"), Some(1e-3));
@@ -2071,7 +2150,10 @@ mod tests {
     #[test]
     fn header_cells() {
         let t_ok = |u: &str| units::to_si(QuantityKind::Temperature, "", 1.0, u).is_ok();
-        assert_eq!(match_header("T [degC]", TEMPERATURE_NAMES, t_ok), Some(Some("degC".into())));
+        assert_eq!(
+            match_header("T [degC]", TEMPERATURE_NAMES, t_ok),
+            Some(Some("degC".into()))
+        );
         assert_eq!(match_header("T_K", TEMPERATURE_NAMES, t_ok), Some(Some("K".into())));
         assert_eq!(match_header("Temperature", TEMPERATURE_NAMES, t_ok), Some(None));
         assert_eq!(match_header("h_liquid_J_per_mol", TEMPERATURE_NAMES, t_ok), None);
@@ -2099,7 +2181,10 @@ mod tests {
             let x: f64 = (t - m) / h;
             let direct: f64 = beta.iter().enumerate().map(|(k, b)| b * x.powi(k as i32)).sum();
             let expanded: f64 = coeff.iter().enumerate().map(|(k, c)| c * f64::powi(t, k as i32)).sum();
-            assert!((direct - expanded).abs() < 1e-6 * direct.abs().max(1.0), "{t}: {direct} vs {expanded}");
+            assert!(
+                (direct - expanded).abs() < 1e-6 * direct.abs().max(1.0),
+                "{t}: {direct} vs {expanded}"
+            );
         }
     }
 

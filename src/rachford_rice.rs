@@ -66,6 +66,9 @@ pub const MOLE_FRACTION_SUM_TOLERANCE: f64 = 1e-6;
 /// How many safeguarded Newton steps before bisection alone takes over.
 const NEWTON_STEPS: u32 = 50;
 
+/// Newton stops once |G| ≤ ROUND_OFF · ε · Σ|terms of G|: G is then round-off.
+const ROUND_OFF: f64 = 4.0;
+
 /// The phase of a stream at equilibrium.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
 pub enum Phase {
@@ -376,7 +379,7 @@ pub fn solve_into(
     let mut s = hi;
     let mut iterations = 0;
     loop {
-        let (g, dg) = problem.g_and_slope(s);
+        let (g, dg, scale) = problem.g_and_slope(s);
         evaluations += 1;
         iterations += 1;
         if g == 0.0 {
@@ -392,7 +395,11 @@ pub fn solve_into(
             let denominator = dg + g * (1.0 / (s - problem.pole_lo) - 1.0 / (problem.pole_hi - s));
             let step = g / denominator;
             let candidate = s - step;
-            if candidate.is_finite() && step.abs() <= 2.0 * f64::EPSILON * s {
+            // Converged when the step is below the resolution of s, or when G is down to its
+            // own round-off (near β = 0 or 1 the absolute error of G, about ε Σ|terms|,
+            // can exceed ε·s·|G'|, and the relative step test alone would then never pass).
+            let at_round_off = g.abs() <= ROUND_OFF * f64::EPSILON * scale;
+            if candidate.is_finite() && (step.abs() <= 2.0 * f64::EPSILON * s || at_round_off) {
                 // Converged; the step may round onto the bracket end just moved to s.
                 s = candidate.clamp(lo, hi);
                 break;
@@ -519,16 +526,19 @@ impl<'a> Oriented<'a> {
     }
 
     #[inline]
-    fn g_and_slope(&self, s: f64) -> (f64, f64) {
-        let (mut g, mut dg) = (0.0, 0.0);
+    /// G(s), G'(s) and Σ|terms of G|, the scale of the round-off in G.
+    fn g_and_slope(&self, s: f64) -> (f64, f64, f64) {
+        let (mut g, mut dg, mut scale) = (0.0, 0.0, 0.0);
         for i in 0..self.z.len() {
             let (p, a) = self.coefficients(i);
             let zi = self.z[i] * self.inv_sum;
             let r = a / (p + s * a);
-            g += zi * r;
-            dg -= zi * r * r;
+            let term = zi * r;
+            g += term;
+            dg -= term * r;
+            scale += term.abs();
         }
-        (g, dg)
+        (g, dg, scale)
     }
 
     fn write(&self, s: f64, x: &mut [f64], y: &mut [f64]) {
@@ -579,7 +589,7 @@ fn negative_root(
     let mut evaluations = 2;
     loop {
         let s = pole + r;
-        let (g, dg) = problem.g_and_slope(s);
+        let (g, dg, scale) = problem.g_and_slope(s);
         evaluations += 1;
         iterations += 1;
         if g == 0.0 {
@@ -593,6 +603,11 @@ fn negative_root(
         let next = if iterations <= NEWTON_STEPS {
             let denominator = dg + g * (1.0 / r - 1.0 / (problem.pole_hi - s));
             let candidate = r - g / denominator;
+            if candidate.is_finite() && g.abs() <= ROUND_OFF * f64::EPSILON * scale {
+                // G is down to its round-off (see `solve_into`).
+                r = candidate.clamp(lo.max(f64::MIN_POSITIVE), hi);
+                break;
+            }
             if candidate > lo && candidate < hi && candidate.is_finite() {
                 candidate
             } else {

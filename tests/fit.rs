@@ -104,10 +104,16 @@ fn antoine_refit_recovers_published_curves() {
             fit.constants(AntoineForm::Log10BarKelvin)
         );
         assert!(dev < 1e-3, "{name}: {dev}");
-        assert!(dev < 1e-8, "{name}: exact data should be recovered essentially exactly: {dev}");
+        assert!(
+            dev < 1e-8,
+            "{name}: exact data should be recovered essentially exactly: {dev}"
+        );
         let (a, b, c) = fit.constants(AntoineForm::Log10BarKelvin);
         let (a0, b0, c0) = flashduty::fit::published_constants(&truth, AntoineForm::Log10BarKelvin);
-        assert!((a - a0).abs() < 1e-6 && (b / b0 - 1.0).abs() < 1e-6 && (c - c0).abs() < 1e-4, "{a} {b} {c}");
+        assert!(
+            (a - a0).abs() < 1e-6 && (b / b0 - 1.0).abs() < 1e-6 && (c - c0).abs() < 1e-4,
+            "{a} {b} {c}"
+        );
         assert_eq!(fit.report.validity, r);
         assert!(fit.report.warnings.is_empty(), "{:?}", fit.report.warnings);
         assert!(fit.report.rms_relative_deviation <= fit.report.max_abs_relative_deviation);
@@ -184,7 +190,10 @@ fn extended_refit_recovers_perry_water() {
     let pts = sample(280.0, 600.0, 33, truth);
     let fit = fit_extended(&pts, 2.0).unwrap();
     let dev = max_rel_dev(280.0, 600.0, |t| fit.model.psat_pa(t), truth);
-    println!("water, extended refit: max deviation {dev:.2e}; constants {:?}", fit.constants);
+    println!(
+        "water, extended refit: max deviation {dev:.2e}; constants {:?}",
+        fit.constants
+    );
     assert!(dev < 1e-9, "{dev}");
     let want = [73.649, -7258.2, -7.3037, 4.1653e-6];
     for (got, want) in fit.constants.iter().zip(want) {
@@ -246,19 +255,36 @@ fn cp_polynomial_of_degree_four_over_ten_kelvin_is_stable() {
 #[test]
 fn cp_polynomial_least_squares_and_constant() {
     // Degree 0 is the mean.
-    let pts = [DataPoint::new(300.0, 70.0), DataPoint::new(320.0, 74.0), DataPoint::new(340.0, 75.0)];
+    let pts = [
+        DataPoint::new(300.0, 70.0),
+        DataPoint::new(320.0, 74.0),
+        DataPoint::new(340.0, 75.0),
+    ];
     let fit = fit_cp_polynomial(&pts, 0).unwrap();
     assert!((fit.coefficients[0] - 73.0).abs() < 1e-12);
     // A straight line through scattered points: residuals sum to zero and are orthogonal
     // to T (the least-squares conditions).
-    let pts: Vec<_> = [(300.0, 75.1), (310.0, 75.6), (320.0, 75.5), (330.0, 76.4), (340.0, 76.6)]
-        .iter()
-        .map(|&(t, v)| DataPoint::new(t, v))
-        .collect();
+    let pts: Vec<_> = [
+        (300.0, 75.1),
+        (310.0, 75.6),
+        (320.0, 75.5),
+        (330.0, 76.4),
+        (340.0, 76.6),
+    ]
+    .iter()
+    .map(|&(t, v)| DataPoint::new(t, v))
+    .collect();
     let fit = fit_cp_polynomial(&pts, 1).unwrap();
     let r: Vec<f64> = fit.report.residuals.iter().map(|r| r.fitted - r.measured).collect();
     assert!(r.iter().sum::<f64>().abs() < 1e-10);
-    assert!(r.iter().zip(&pts).map(|(ri, p)| ri * (p.t_k - 320.0)).sum::<f64>().abs() < 1e-8);
+    assert!(
+        r.iter()
+            .zip(&pts)
+            .map(|(ri, p)| ri * (p.t_k - 320.0))
+            .sum::<f64>()
+            .abs()
+            < 1e-8
+    );
 }
 
 // ---------------------------------------------------------------------------------------
@@ -274,14 +300,41 @@ fn error_too_few_points() {
     let pts = &vp_points()[..2];
     let e = fit_antoine(pts).unwrap_err();
     assert!(
-        matches!(e, FitError::TooFewPoints { points: 2, constants: 3, model: "antoine" }),
+        matches!(
+            e,
+            FitError::TooFewPoints {
+                points: 2,
+                constants: 3,
+                model: "antoine"
+            }
+        ),
         "{e:?}"
     );
     assert!(e.to_string().contains("2 given"), "{e}");
     let e = fit_extended(&vp_points()[..3], 2.0).unwrap_err();
-    assert!(matches!(e, FitError::TooFewPoints { points: 3, constants: 4, .. }), "{e:?}");
+    assert!(
+        matches!(
+            e,
+            FitError::TooFewPoints {
+                points: 3,
+                constants: 4,
+                ..
+            }
+        ),
+        "{e:?}"
+    );
     let e = fit_cp_polynomial(&[], 0).unwrap_err();
-    assert!(matches!(e, FitError::TooFewPoints { points: 0, constants: 1, .. }), "{e:?}");
+    assert!(
+        matches!(
+            e,
+            FitError::TooFewPoints {
+                points: 0,
+                constants: 1,
+                ..
+            }
+        ),
+        "{e:?}"
+    );
 }
 
 #[test]
@@ -289,12 +342,35 @@ fn error_not_finite_names_row() {
     let mut pts = vp_points();
     pts[4].value = f64::NAN;
     let e = fit_antoine(&pts).unwrap_err();
-    assert!(matches!(e, FitError::NotFinite { row: 5, column: "vapour pressure", .. }), "{e:?}");
-    assert!(e.to_string().contains("data row 5") && e.to_string().contains("NaN"), "{e}");
+    assert!(
+        matches!(
+            e,
+            FitError::NotFinite {
+                row: 5,
+                column: "vapour pressure",
+                ..
+            }
+        ),
+        "{e:?}"
+    );
+    assert!(
+        e.to_string().contains("data row 5") && e.to_string().contains("NaN"),
+        "{e}"
+    );
     let mut pts = vp_points();
     pts[1].t_k = f64::INFINITY;
     let e = fit_antoine(&pts).unwrap_err();
-    assert!(matches!(e, FitError::NotFinite { row: 2, column: "temperature", .. }), "{e:?}");
+    assert!(
+        matches!(
+            e,
+            FitError::NotFinite {
+                row: 2,
+                column: "temperature",
+                ..
+            }
+        ),
+        "{e:?}"
+    );
 }
 
 #[test]
@@ -302,10 +378,22 @@ fn error_non_positive_pressure_names_row() {
     let mut pts = vp_points();
     pts[2].value = -1500.0;
     let e = fit_antoine(&pts).unwrap_err();
-    assert_eq!(e, FitError::NonPositivePressure { row: 3, pressure_pa: -1500.0 });
-    assert!(e.to_string().contains("data row 3") && e.to_string().contains("-1500"), "{e}");
+    assert_eq!(
+        e,
+        FitError::NonPositivePressure {
+            row: 3,
+            pressure_pa: -1500.0
+        }
+    );
+    assert!(
+        e.to_string().contains("data row 3") && e.to_string().contains("-1500"),
+        "{e}"
+    );
     pts[2].value = 0.0;
-    assert!(matches!(fit_extended(&pts, 2.0), Err(FitError::NonPositivePressure { row: 3, .. })));
+    assert!(matches!(
+        fit_extended(&pts, 2.0),
+        Err(FitError::NonPositivePressure { row: 3, .. })
+    ));
 }
 
 #[test]
@@ -314,15 +402,31 @@ fn error_non_positive_temperature_names_row() {
     pts[7].t_k = -10.0;
     let e = fit_antoine(&pts).unwrap_err();
     assert_eq!(e, FitError::NonPositiveTemperature { row: 8, t_k: -10.0 });
-    assert!(e.to_string().contains("data row 8") && e.to_string().contains("-10 K"), "{e}");
+    assert!(
+        e.to_string().contains("data row 8") && e.to_string().contains("-10 K"),
+        "{e}"
+    );
 }
 
 #[test]
 fn error_non_positive_heat_capacity_names_row() {
-    let pts = [DataPoint::new(300.0, 75.0), DataPoint::new(310.0, -75.5), DataPoint::new(320.0, 76.0)];
+    let pts = [
+        DataPoint::new(300.0, 75.0),
+        DataPoint::new(310.0, -75.5),
+        DataPoint::new(320.0, 76.0),
+    ];
     let e = fit_cp_polynomial(&pts, 1).unwrap_err();
-    assert_eq!(e, FitError::NonPositiveHeatCapacity { row: 2, cp_j_per_mol_k: -75.5 });
-    assert!(e.to_string().contains("data row 2") && e.to_string().contains("-75.5"), "{e}");
+    assert_eq!(
+        e,
+        FitError::NonPositiveHeatCapacity {
+            row: 2,
+            cp_j_per_mol_k: -75.5
+        }
+    );
+    assert!(
+        e.to_string().contains("data row 2") && e.to_string().contains("-75.5"),
+        "{e}"
+    );
 }
 
 #[test]
@@ -330,7 +434,17 @@ fn error_duplicate_temperature_names_both_rows() {
     let mut pts = vp_points();
     pts[6].t_k = pts[1].t_k;
     let e = fit_antoine(&pts).unwrap_err();
-    assert!(matches!(e, FitError::DuplicateTemperature { row: 7, first_row: 2, .. }), "{e:?}");
+    assert!(
+        matches!(
+            e,
+            FitError::DuplicateTemperature {
+                row: 7,
+                first_row: 2,
+                ..
+            }
+        ),
+        "{e:?}"
+    );
     let msg = e.to_string();
     assert!(msg.contains("data row 7") && msg.contains("data row 2"), "{msg}");
 }
@@ -356,7 +470,9 @@ fn error_invalid_exponent() {
 fn error_degenerate_when_pressure_falls() {
     // Pressures falling with temperature (a column swap, say): the best Antoine curve falls too.
     let b = benzene_nist();
-    let pts: Vec<_> = linspace(290.0, 350.0, 8).map(|t| DataPoint::new(t, b.psat_pa(640.0 - t))).collect();
+    let pts: Vec<_> = linspace(290.0, 350.0, 8)
+        .map(|t| DataPoint::new(t, b.psat_pa(640.0 - t)))
+        .collect();
     let e = fit_antoine(&pts).unwrap_err();
     assert!(matches!(e, FitError::Degenerate { model: "antoine", .. }), "{e:?}");
     assert!(e.to_string().contains("does not rise"), "{e}");
@@ -372,7 +488,14 @@ fn warnings_for_thin_narrow_and_non_monotonic_data() {
     let pts = sample(320.0, 329.0, 4, |t| b.psat_pa(t));
     let fit = fit_antoine(&pts).unwrap();
     let w = &fit.report.warnings;
-    assert!(w.contains(&FitWarning::FewPoints { points: 4, constants: 3, recommended: 6 }), "{w:?}");
+    assert!(
+        w.contains(&FitWarning::FewPoints {
+            points: 4,
+            constants: 3,
+            recommended: 6
+        }),
+        "{w:?}"
+    );
     assert!(w.iter().any(|w| matches!(w, FitWarning::NarrowRange { .. })), "{w:?}");
 
     // A pressure that fails to rise, and two temperatures 5 mK apart.
@@ -382,21 +505,43 @@ fn warnings_for_thin_narrow_and_non_monotonic_data() {
     let fit = fit_antoine(&pts).unwrap();
     let w = &fit.report.warnings;
     assert!(
-        w.iter()
-            .any(|w| matches!(w, FitWarning::NotMonotonic { row: 6, previous_row: 5, .. })),
+        w.iter().any(|w| matches!(
+            w,
+            FitWarning::NotMonotonic {
+                row: 6,
+                previous_row: 5,
+                ..
+            }
+        )),
         "{w:?}"
     );
     assert!(
-        w.iter()
-            .any(|w| matches!(w, FitWarning::NearDuplicateTemperature { row: 11, other_row: 9, .. })),
+        w.iter().any(|w| matches!(
+            w,
+            FitWarning::NearDuplicateTemperature {
+                row: 11,
+                other_row: 9,
+                ..
+            }
+        )),
         "{w:?}"
     );
     // The report names the worst point, and serialises its warnings with a kind tag.
     assert_eq!(fit.report.max_deviation_row, 6);
     let json = serde_json::to_value(&fit.report).unwrap();
-    let kinds: Vec<&str> = json["warnings"].as_array().unwrap().iter().map(|w| w["kind"].as_str().unwrap()).collect();
-    assert!(kinds.contains(&"not-monotonic") && kinds.contains(&"near-duplicate-temperature"), "{kinds:?}");
+    let kinds: Vec<&str> = json["warnings"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|w| w["kind"].as_str().unwrap())
+        .collect();
+    assert!(
+        kinds.contains(&"not-monotonic") && kinds.contains(&"near-duplicate-temperature"),
+        "{kinds:?}"
+    );
     assert_eq!(json["residuals"].as_array().unwrap().len(), 11);
+    assert_eq!(json["constants"][1]["name"], "B");
+    assert_eq!(json["constants"][1]["value"], fit.antoine.internal_constants().1);
     println!("{}", fit.report);
 }
 
@@ -428,8 +573,16 @@ fn csv_with_units_in_the_header() {
     assert_eq!(pts.len(), 15);
     assert!((pts[0].t_k - 288.15).abs() < 1e-12 && (pts[0].value - 7830.3).abs() < 1e-9);
     let fit = fit_antoine(&pts).unwrap();
-    let dev = max_rel_dev(288.15, 354.05, |t| fit.antoine.psat_pa(t), |t| benzene_nist().psat_pa(t));
-    println!("benzene from the CSV fixture (5 significant figures): within {:.1e} of the NIST curve", dev);
+    let dev = max_rel_dev(
+        288.15,
+        354.05,
+        |t| fit.antoine.psat_pa(t),
+        |t| benzene_nist().psat_pa(t),
+    );
+    println!(
+        "benzene from the CSV fixture (5 significant figures): within {:.1e} of the NIST curve",
+        dev
+    );
     assert!(dev < 1e-4, "{dev}");
 
     let text = include_str!("fixtures/fit_benzene_liquid_cp.csv");
@@ -473,10 +626,35 @@ fn csv_error_no_header() {
 #[test]
 fn csv_error_missing_column() {
     let e = read_points_csv("T [K], Cp [J/mol/K]\n300, 75\n", DataKind::VapourPressure).unwrap_err();
-    assert!(matches!(e, FitError::CsvMissingColumn { line: 1, column: "vapour pressure", .. }), "{e:?}");
+    assert!(
+        matches!(
+            e,
+            FitError::CsvMissingColumn {
+                line: 1,
+                column: "vapour pressure",
+                ..
+            }
+        ),
+        "{e:?}"
+    );
     assert!(e.to_string().contains("Cp [J/mol/K]"), "{e}");
     let e = read_points_csv("x, P\n1, 2\n", DataKind::VapourPressure).unwrap_err();
-    assert!(matches!(e, FitError::CsvMissingColumn { column: "temperature", .. }), "{e:?}");
+    assert!(
+        matches!(
+            e,
+            FitError::CsvMissingColumn {
+                column: "temperature",
+                ..
+            }
+        ),
+        "{e:?}"
+    );
+    // Non-ASCII header cells are matched safely (the dotted capital I lower-cases to a
+    // longer string).
+    let e = read_points_csv("\u{130}\u{130}_x_K, P\n1, 2\n", DataKind::VapourPressure).unwrap_err();
+    assert!(matches!(e, FitError::CsvMissingColumn { line: 1, .. }), "{e:?}");
+    let pts = read_points_csv("T_\u{b0}C, P_kPa\n25, 3.2\n", DataKind::VapourPressure).unwrap();
+    assert!((pts[0].t_k - 298.15).abs() < 1e-12 && (pts[0].value - 3200.0).abs() < 1e-9);
 }
 
 #[test]
@@ -515,7 +693,10 @@ fn csv_error_not_a_number() {
     assert!(matches!(e, FitError::CsvFieldCount { line: 3, row: 2, .. }), "{e:?}");
     let e = read_points_csv("T [K], P [Pa]\n300, 1\n310, 2.5kPa\n", DataKind::VapourPressure).unwrap_err();
     assert!(matches!(e, FitError::CsvNumber { line: 3, row: 2, .. }), "{e:?}");
-    assert!(e.to_string().contains("'2.5kPa'") && e.to_string().contains("P [Pa]"), "{e}");
+    assert!(
+        e.to_string().contains("'2.5kPa'") && e.to_string().contains("P [Pa]"),
+        "{e}"
+    );
 }
 
 // ---------------------------------------------------------------------------------------
@@ -538,7 +719,11 @@ fn builder() -> UserComponentBuilder {
     )
     .unwrap();
     let cp = fit_cp_polynomial(
-        &read_points_csv(include_str!("fixtures/fit_benzene_liquid_cp.csv"), DataKind::HeatCapacity).unwrap(),
+        &read_points_csv(
+            include_str!("fixtures/fit_benzene_liquid_cp.csv"),
+            DataKind::HeatCapacity,
+        )
+        .unwrap(),
         2,
     )
     .unwrap();
@@ -554,7 +739,10 @@ fn builder() -> UserComponentBuilder {
         .liquid_cp_fit(&cp)
         .vapour_cp_constant(82.4, 298.15, 600.0)
         .latent_heat_watson(353.24, 30_720.0, None)
-        .source("crc-handbook", "CRC Handbook of Chemistry and Physics (edition as used by the plant)")
+        .source(
+            "crc-handbook",
+            "CRC Handbook of Chemistry and Physics (edition as used by the plant)",
+        )
         .cite("molar_mass_g_per_mol", "crc-handbook", true, None)
         .cite("critical_temperature_K", "ppo-5", true, None)
 }
@@ -583,7 +771,12 @@ fn user_component_round_trip_through_the_library() {
     let rec = &file["components"][0];
     assert_eq!(rec["vapour_pressure"]["source"], "plant-lab-2026-03");
     assert_eq!(rec["vapour_pressure"]["from_memory"], false);
-    assert!(rec["vapour_pressure"]["note"].as_str().unwrap().contains("fitted to 15 points"));
+    assert!(
+        rec["vapour_pressure"]["note"]
+            .as_str()
+            .unwrap()
+            .contains("fitted to 15 points")
+    );
     assert_eq!(rec["molar_mass_g_per_mol"]["source"], "crc-handbook");
     assert_eq!(rec["molar_mass_g_per_mol"]["from_memory"], true);
 
@@ -600,10 +793,22 @@ fn user_component_round_trip_through_the_library() {
     // the last place off, so the curves agree to rounding rather than bit for bit.
     let same = |x: f64, y: f64| (x / y - 1.0).abs() < 1e-13;
     for t in [290.0, 320.0, 353.24, 400.0] {
-        assert!(same(back.vapour_pressure().psat_pa(t), made.vapour_pressure().psat_pa(t)));
-        assert!(same(back.liquid_heat_capacity().cp(t), made.liquid_heat_capacity().cp(t)));
-        assert!(same(back.vapour_heat_capacity().cp(t), made.vapour_heat_capacity().cp(t)));
-        assert!(same(back.latent_heat().latent_heat(t), made.latent_heat().latent_heat(t)));
+        assert!(same(
+            back.vapour_pressure().psat_pa(t),
+            made.vapour_pressure().psat_pa(t)
+        ));
+        assert!(same(
+            back.liquid_heat_capacity().cp(t),
+            made.liquid_heat_capacity().cp(t)
+        ));
+        assert!(same(
+            back.vapour_heat_capacity().cp(t),
+            made.vapour_heat_capacity().cp(t)
+        ));
+        assert!(same(
+            back.latent_heat().latent_heat(t),
+            made.latent_heat().latent_heat(t)
+        ));
     }
     assert_eq!(back.provenance(), made.provenance());
     let again = ComponentChecks::of(back);
@@ -636,7 +841,10 @@ fn user_component_with_extended_form_and_published_units() {
         .unwrap();
     let c = user.checks();
     println!("plant water checks: {c:?}");
-    assert!(c.boiling_point_passed() && c.psat_relative_deviation.abs() < 1e-4, "{c:?}");
+    assert!(
+        c.boiling_point_passed() && c.psat_relative_deviation.abs() < 1e-4,
+        "{c:?}"
+    );
     assert!(c.latent_heat_passed(), "{c:?}");
     let mut lib = Library::default();
     lib.add_json("water.json", &user.to_file_string()).unwrap();
@@ -657,7 +865,10 @@ fn user_component_with_extended_form_and_published_units() {
         .vapour_cp_constant(33.6, 298.15, 500.0)
         .latent_heat_watson(373.1243, 40_657.0, None);
     let user = b.build().unwrap();
-    assert_eq!(user.component().to_json()["vapour_pressure"]["units"], "log10-mmHg-degC");
+    assert_eq!(
+        user.component().to_json()["vapour_pressure"]["units"],
+        "log10-mmHg-degC"
+    );
     let mut lib = Library::default();
     lib.add_json("water2.json", &user.to_file_string()).unwrap();
     let p = lib.get("plant water 2").unwrap().vapour_pressure().psat_pa(350.0);
@@ -667,17 +878,26 @@ fn user_component_with_extended_form_and_published_units() {
 #[test]
 fn user_component_checks_warn_or_fail_when_strict() {
     // A normal boiling point 5 K too high: Psat there is well above 1 atm.
-    let b = builder().normal_boiling_point_k(358.24).latent_heat_watson(358.24, 30_300.0, None);
+    let b = builder()
+        .normal_boiling_point_k(358.24)
+        .latent_heat_watson(358.24, 30_300.0, None);
     let user = b.clone().build().unwrap();
     let w = user.warnings();
     assert!(
-        w.iter()
-            .any(|w| matches!(w, FitWarning::BoilingPointPressure { relative_deviation, .. } if *relative_deviation > 0.1)),
+        w.iter().any(
+            |w| matches!(w, FitWarning::BoilingPointPressure { relative_deviation, .. } if *relative_deviation > 0.1)
+        ),
         "{w:?}"
     );
-    assert!(w.iter().any(|w| matches!(w, FitWarning::BoilingPointOutsideFit { .. })), "{w:?}");
+    assert!(
+        w.iter().any(|w| matches!(w, FitWarning::BoilingPointOutsideFit { .. })),
+        "{w:?}"
+    );
     let e = b.strict(true).build().unwrap_err();
-    assert!(matches!(&e, FitError::ChecksFailed { failed, .. } if failed.len() == 1), "{e:?}");
+    assert!(
+        matches!(&e, FitError::ChecksFailed { failed, .. } if failed.len() == 1),
+        "{e:?}"
+    );
     assert!(e.to_string().contains("101325 Pa"), "{e}");
 
     // A latent heat 20 % too low against the vapour-pressure slope.
@@ -689,14 +909,18 @@ fn user_component_checks_warn_or_fail_when_strict() {
     let FitError::ChecksFailed { failed, .. } = &e else {
         panic!("{e:?}")
     };
-    assert!(matches!(failed[0], FitWarning::LatentHeatConsistency { relative_deviation, .. } if relative_deviation > 0.2));
+    assert!(
+        matches!(failed[0], FitWarning::LatentHeatConsistency { relative_deviation, .. } if relative_deviation > 0.2)
+    );
     assert!(e.to_string().contains("Clausius-Clapeyron"), "{e}");
 }
 
 #[test]
 fn user_component_errors_name_the_field() {
     // A value not given.
-    let e = UserComponentBuilder::new("x", "0-00-20", "C", "lab").build().unwrap_err();
+    let e = UserComponentBuilder::new("x", "0-00-20", "C", "lab")
+        .build()
+        .unwrap_err();
     assert_eq!(
         e,
         FitError::MissingField {
@@ -706,9 +930,15 @@ fn user_component_errors_name_the_field() {
     );
     // A value not finite.
     let e = builder().acentric_factor(f64::NAN).build().unwrap_err();
-    assert!(matches!(&e, FitError::InvalidValue { field, .. } if field == "acentric_factor"), "{e:?}");
+    assert!(
+        matches!(&e, FitError::InvalidValue { field, .. } if field == "acentric_factor"),
+        "{e:?}"
+    );
     // A field that cannot be cited.
-    let e = builder().cite("boiling_point", "crc-handbook", true, None).build().unwrap_err();
+    let e = builder()
+        .cite("boiling_point", "crc-handbook", true, None)
+        .build()
+        .unwrap_err();
     assert!(e.to_string().contains("boiling_point"), "{e}");
     // The library's own checks: Tc below Tb.
     let e = builder().critical_temperature_k(300.0).build().unwrap_err();
@@ -717,6 +947,34 @@ fn user_component_errors_name_the_field() {
         "{e:?}"
     );
     // A cited source that no bibliography defines.
-    let e = builder().cite("acentric_factor", "nowhere", false, None).build().unwrap_err();
-    assert!(matches!(&e, FitError::Component(ComponentError::UnknownSource { .. })), "{e:?}");
+    let e = builder()
+        .cite("acentric_factor", "nowhere", false, None)
+        .build()
+        .unwrap_err();
+    assert!(
+        matches!(&e, FitError::Component(ComponentError::UnknownSource { .. })),
+        "{e:?}"
+    );
+}
+
+#[test]
+fn example_inputs_fit_cleanly() {
+    let pts = read_points_csv(
+        include_str!("../examples/fit_vapour_pressure.csv"),
+        DataKind::VapourPressure,
+    )
+    .unwrap();
+    let fit = fit_antoine(&pts).unwrap();
+    let dev = max_rel_dev(
+        313.15,
+        383.15,
+        |t| fit.antoine.psat_pa(t),
+        |t| toluene_nist().psat_pa(t),
+    );
+    println!("{}toluene example: within {:.1e} of the NIST curve", fit.report, dev);
+    assert!(fit.report.warnings.is_empty() && dev < 5e-4, "{dev}");
+    let pts = read_points_csv(include_str!("../examples/fit_liquid_cp.csv"), DataKind::HeatCapacity).unwrap();
+    let fit = fit_cp_polynomial(&pts, 2).unwrap();
+    println!("{}", fit.report);
+    assert!(fit.report.warnings.is_empty() && fit.report.max_abs_relative_deviation < 5e-4);
 }

@@ -162,47 +162,17 @@ impl EnthalpyModel {
         self.path
     }
 
-    /// The temperature at which component `i` is vaporised on the path to vapour at `t_k`,
-    /// starting from liquid at the reference temperature.
     fn switch_temperature(&self, c: &Component, t_k: f64) -> f64 {
-        match self.path {
-            VaporisationPath::BoilingPoint => c.normal_boiling_point_k(),
-            VaporisationPath::StreamTemperature => t_k,
-            VaporisationPath::ReferenceTemperature => self.reference.temperature_k,
-        }
-    }
-
-    /// The split measured from pure liquid at the reference temperature.
-    fn from_liquid(&self, c: &Component, phase: Phase, t_k: f64) -> EnthalpySplit {
-        let t_ref = self.reference.temperature_k;
-        match phase {
-            Phase::Vapour => {
-                let ts = self.switch_temperature(c, t_k);
-                EnthalpySplit {
-                    liquid_sensible_j_per_mol: c.liquid_heat_capacity().enthalpy_change(t_ref, ts),
-                    latent_j_per_mol: c.latent_heat().latent_heat(ts),
-                    vapour_sensible_j_per_mol: c.vapour_heat_capacity().enthalpy_change(ts, t_k),
-                }
-            }
-            _ => EnthalpySplit {
-                liquid_sensible_j_per_mol: c.liquid_heat_capacity().enthalpy_change(t_ref, t_k),
-                ..EnthalpySplit::default()
-            },
-        }
+        switch_temperature(c, t_k, self.reference, self.path)
     }
 
     /// The molar enthalpy of pure component `index` in `phase` (`Liquid` or `Vapour`;
     /// `TwoPhase` is read as liquid) at `t_k`, relative to the reference state. An index out
     /// of range gives zero.
     pub fn pure(&self, index: usize, phase: Phase, t_k: f64) -> EnthalpySplit {
-        let Some(c) = self.components.get(index) else {
-            return EnthalpySplit::default();
-        };
-        let split = self.from_liquid(c, phase, t_k);
-        match self.reference.phase {
-            ReferencePhase::Liquid => split,
-            ReferencePhase::Vapour => split.minus(self.from_liquid(c, Phase::Vapour, self.reference.temperature_k)),
-        }
+        self.components
+            .get(index)
+            .map_or_else(EnthalpySplit::default, |c| pure_enthalpy(c, phase, t_k, self.reference, self.path))
     }
 
     /// d h / dT of pure component `index` in `phase` at `t_k`, J/(mol·K).
@@ -270,5 +240,53 @@ impl EnthalpyModel {
                 check("vapour_heat_capacity", c.vapour_heat_capacity().validity(), t);
             }
         }
+    }
+}
+
+/// The temperature at which a component is vaporised on the path to vapour at `t_k`,
+/// starting from liquid at the reference temperature.
+fn switch_temperature(c: &Component, t_k: f64, reference: ReferenceState, path: VaporisationPath) -> f64 {
+    match path {
+        VaporisationPath::BoilingPoint => c.normal_boiling_point_k(),
+        VaporisationPath::StreamTemperature => t_k,
+        VaporisationPath::ReferenceTemperature => reference.temperature_k,
+    }
+}
+
+/// The split measured from pure liquid at the reference temperature.
+fn from_liquid(c: &Component, phase: Phase, t_k: f64, reference: ReferenceState, path: VaporisationPath) -> EnthalpySplit {
+    let t_ref = reference.temperature_k;
+    match phase {
+        Phase::Vapour => {
+            let ts = switch_temperature(c, t_k, reference, path);
+            EnthalpySplit {
+                liquid_sensible_j_per_mol: c.liquid_heat_capacity().enthalpy_change(t_ref, ts),
+                latent_j_per_mol: c.latent_heat().latent_heat(ts),
+                vapour_sensible_j_per_mol: c.vapour_heat_capacity().enthalpy_change(ts, t_k),
+            }
+        }
+        _ => EnthalpySplit {
+            liquid_sensible_j_per_mol: c.liquid_heat_capacity().enthalpy_change(t_ref, t_k),
+            ..EnthalpySplit::default()
+        },
+    }
+}
+
+/// The molar enthalpy of pure `c` in `phase` at `t_k` relative to `reference`, along `path`.
+///
+/// With a vapour reference every enthalpy is shifted by the same amount, the enthalpy of the
+/// vapour at the reference temperature measured from the liquid there along the same path,
+/// so duties along paths (a) and (b) do not depend on the reference state.
+pub(crate) fn pure_enthalpy(
+    c: &Component,
+    phase: Phase,
+    t_k: f64,
+    reference: ReferenceState,
+    path: VaporisationPath,
+) -> EnthalpySplit {
+    let split = from_liquid(c, phase, t_k, reference, path);
+    match reference.phase {
+        ReferencePhase::Liquid => split,
+        ReferencePhase::Vapour => split.minus(from_liquid(c, Phase::Vapour, reference.temperature_k, reference, path)),
     }
 }

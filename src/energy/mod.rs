@@ -27,6 +27,7 @@
 mod enthalpy;
 
 pub use enthalpy::{EnthalpyModel, EnthalpySplit, ReferencePhase, ReferenceState, VaporisationPath};
+use enthalpy::pure_enthalpy;
 
 use crate::equilibrium::{
     FlashError, FlashResult, FlashSpec, KValueModel, KValues, Raoult, SEARCH_MAX_TEMPERATURE_K,
@@ -356,18 +357,19 @@ impl<'a> Calc<'a> {
 
     /// Per mole of stream: Σ over components and phases of amount × enthalpy.
     fn enthalpy(&self, r: &FlashResult) -> f64 {
-        self.enthalpy_with(&self.h, r)
+        self.enthalpy_with(self.h.path(), r)
     }
 
-    fn enthalpy_with(&self, h: &EnthalpyModel, r: &FlashResult) -> f64 {
+    fn enthalpy_with(&self, path: VaporisationPath, r: &FlashResult) -> f64 {
+        let reference = self.h.reference();
         let mut total = 0.0;
-        for (i, _) in self.stream.components.iter().enumerate() {
+        for (i, c) in self.stream.components.iter().enumerate() {
             let (l, v) = amounts(r, i, &self.stream.z);
             if l > 0.0 {
-                total += l * h.pure(i, Phase::Liquid, r.temperature_k).total_j_per_mol();
+                total += l * pure_enthalpy(c, Phase::Liquid, r.temperature_k, reference, path).total_j_per_mol();
             }
             if v > 0.0 {
-                total += v * h.pure(i, Phase::Vapour, r.temperature_k).total_j_per_mol();
+                total += v * pure_enthalpy(c, Phase::Vapour, r.temperature_k, reference, path).total_j_per_mol();
             }
         }
         total
@@ -405,10 +407,7 @@ impl<'a> Calc<'a> {
 
     fn path_spread(&self, inlet: &FlashResult, outlet: &FlashResult) -> PathSpread {
         let flow = self.stream.flow.mol_per_s();
-        let duty = |path| {
-            let h = EnthalpyModel::new(self.stream.components.clone(), self.h.reference(), path);
-            flow * (self.enthalpy_with(&h, outlet) - self.enthalpy_with(&h, inlet))
-        };
+        let duty = |path| flow * (self.enthalpy_with(path, outlet) - self.enthalpy_with(path, inlet));
         let [a, b, c] = VaporisationPath::ALL.map(duty);
         let max = a.max(b).max(c);
         let min = a.min(b).min(c);
@@ -528,7 +527,40 @@ impl<'a> Calc<'a> {
             let r = single(Phase::Vapour, td, td + 10.0)?;
             return Ok(force_single(r, Phase::Vapour, z));
         }
-        self.two_phase(target, p, bubble.temperature_k, dew.temperature_k, 0.0, 1.0, duty_w)
+        let (t_bub, t_dew) = (bubble.temperature_k, dew.temperature_k);
+        if t_dew - t_bub > WIDE_TWO_PHASE_K {
+            return self.two_phase_on_temperature(target, p, t_bub, t_dew);
+        }
+        self.two_phase(target, p, t_bub, t_dew, 0.0, 1.0, duty_w)
+    }
+
+    /// Solves on temperature between the bubble and dew points, Newton with the analytic
+    /// dH/dT inside the bracket: used where the two-phase region spans more than
+    /// [`WIDE_TWO_PHASE_K`], so that temperature pins the vapour fraction down well.
+    fn two_phase_on_temperature(&self, target: f64, p: Pressure, t_bub: f64, t_dew: f64) -> Result<FlashResult, EnergyError> {
+        let z = &self.stream.z;
+        let mut failure: Option<EnergyError> = None;
+        let root = bracketed_newton(
+            |t| match Temperature::new("T", t)
+                .map_err(EnergyError::from)
+                .and_then(|temperature| Ok(flash(&self.k_model, z, FlashSpec::TemperaturePressure { temperature, pressure: p })?))
+            {
+                Ok(r) => (self.enthalpy(&r) - target, self.enthalpy_slope(&r)),
+                Err(e) => {
+                    failure.get_or_insert(e);
+                    (0.0, 1.0)
+                }
+            },
+            t_bub,
+            t_dew,
+            t_bub + (t_dew - t_bub) * 0.5,
+            1e-12,
+        );
+        if let Some(e) = failure {
+            return Err(e);
+        }
+        let temperature = Temperature::new("T", root.x)?;
+        Ok(flash(&self.k_model, z, FlashSpec::TemperaturePressure { temperature, pressure: p })?)
     }
 
     /// Solves on the vapour fraction between the bubble and dew points: temperature may be
@@ -589,6 +621,10 @@ impl<'a> Calc<'a> {
         at(beta)
     }
 }
+
+/// Above this width of the two-phase region (dew minus bubble temperature), the
+/// duty-specified flash solves on temperature; below it, on vapour fraction.
+const WIDE_TWO_PHASE_K: f64 = 1.0;
 
 /// Brent's tolerance for the vapour fraction in the duty-specified flash.
 struct BrentTolerance;

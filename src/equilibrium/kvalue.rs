@@ -70,8 +70,9 @@ pub trait KValueModel {
     fn component_count(&self) -> usize;
 
     /// Writes Kᵢ, ∂ln Kᵢ/∂T and ∂ln Kᵢ/∂P at `t_k`, `p_pa` for the given liquid and vapour
-    /// compositions (ignored by composition-independent models) into `out`, whose vectors
-    /// have [`component_count`](Self::component_count) entries.
+    /// compositions into `out`, whose vectors have
+    /// [`component_count`](Self::component_count) entries. Composition-independent models
+    /// are handed empty composition slices.
     fn k_values(&self, t_k: f64, p_pa: f64, liquid: &[f64], vapour: &[f64], out: &mut KValues);
 
     /// Whether K depends on the phase compositions. Default: no.

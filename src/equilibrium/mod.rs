@@ -240,12 +240,15 @@ pub(crate) fn flash_bracketed<M: KValueModel + ?Sized>(
     }
     let sum = rachford_rice::validate(z, z)?;
     let z: Vec<f64> = z.iter().map(|v| v / sum).collect();
+    // Composition-independent models never read the phase compositions.
+    let start = if model.is_composition_dependent() { z.clone() } else { Vec::new() };
     let mut solver = Solver {
         model,
         z: &z,
         kv: KValues::new(n),
-        liquid: z.clone(),
-        vapour: z.clone(),
+        liquid: start.clone(),
+        vapour: start,
+        last_state: None,
         evaluations: 0,
         iterations: 0,
         t_bracket,
@@ -261,6 +264,7 @@ pub(crate) fn flash_bracketed<M: KValueModel + ?Sized>(
         let change = max_change(&solver.liquid, &new_liquid).max(max_change(&solver.vapour, &new_vapour));
         solver.liquid = new_liquid;
         solver.vapour = new_vapour;
+        solver.last_state = None;
         if change <= 1e-12 {
             return Ok(solver.finish(state));
         }
@@ -323,6 +327,8 @@ struct Solver<'a, M: ?Sized> {
     evaluations: u32,
     iterations: u32,
     t_bracket: Option<(f64, f64)>,
+    /// The (T, P) at which `kv` was last evaluated.
+    last_state: Option<(f64, f64)>,
 }
 
 /// v = −1000/T: the bubble and dew sums are nearly linear in it.
@@ -337,6 +343,14 @@ impl<M: KValueModel + ?Sized> Solver<'_, M> {
     fn k_at(&mut self, t: f64, p: f64) {
         self.model.k_values(t, p, &self.liquid, &self.vapour, &mut self.kv);
         self.evaluations += 1;
+        self.last_state = Some((t, p));
+    }
+
+    /// K at (t, p), reusing the last evaluation when it was made there.
+    fn k_at_cached(&mut self, t: f64, p: f64) {
+        if self.last_state != Some((t, p)) {
+            self.k_at(t, p);
+        }
     }
 
     /// ln Σ zK and its derivatives with respect to T and ln P.
@@ -661,7 +675,7 @@ impl<M: KValueModel + ?Sized> Solver<'_, M> {
     }
 
     fn finish(&mut self, state: State) -> FlashResult {
-        self.k_at(state.t, state.p);
+        self.k_at_cached(state.t, state.p);
         let mut warnings = Vec::new();
         self.model.warnings(state.t, state.p, &mut warnings);
         let sensitivity = (state.phase == Phase::TwoPhase).then(|| {

@@ -1,0 +1,80 @@
+//! Speed of the flash specifications and the energy layer, as ratios against baselines
+//! measured in the same run:
+//! - the T–P flash against the Rachford–Rice solve it contains (the K-value cost is the rest);
+//! - the bubble temperature against a plain bisection on the bubble sum in T, to the same
+//!   tolerance, written here;
+//! - the heater duty against two T–P flashes (the enthalpy table and path spread are the rest);
+//! - the duty-specified flash against the heater duty.
+//!
+//! The mixture is n = 10 library hydrocarbons (an invented feed).
+
+use criterion::{Criterion, criterion_group, criterion_main};
+use flashduty::energy::{DutyOptions, Stream, StreamState, heater_duty, outlet_for_duty};
+use flashduty::equilibrium::{FlashSpec, KValueModel, KValues, Raoult, flash};
+use flashduty::properties::VapourPressure;
+use flashduty::rachford_rice::{Options, solve_into};
+use flashduty::units::{MolarFlow, Power, Pressure, Temperature};
+use std::hint::black_box;
+use std::time::Duration;
+
+const NAMES: [&str; 10] = [
+    "propane", "n-butane", "isopentane", "n-pentane", "n-hexane", "benzene", "n-heptane", "toluene", "n-octane",
+    "o-xylene",
+];
+const Z: [f64; 10] = [0.05, 0.08, 0.07, 0.1, 0.15, 0.1, 0.15, 0.12, 0.1, 0.08];
+
+fn bench(c: &mut Criterion) {
+    let model = Raoult::from_names(&NAMES).expect("library names");
+    let p = Pressure::new("P", 3e5).expect("pressure");
+    let t = Temperature::new("T", 380.0).expect("temperature");
+    let mut g = c.benchmark_group("flash n=10");
+    g.measurement_time(Duration::from_secs(2)).warm_up_time(Duration::from_millis(500));
+
+    let mut kv = KValues::new(10);
+    model.k_values(380.0, 3e5, &[], &[], &mut kv);
+    let (mut x, mut y) = ([0.0; 10], [0.0; 10]);
+    g.bench_function("baseline: Rachford-Rice alone", |b| {
+        b.iter(|| solve_into(black_box(&Z), black_box(&kv.k), Options::default(), &mut x, &mut y))
+    });
+    g.bench_function("T-P flash (Raoult, Antoine)", |b| {
+        b.iter(|| flash(&model, black_box(&Z), FlashSpec::TemperaturePressure { temperature: t, pressure: p }))
+    });
+    g.bench_function("bubble temperature", |b| {
+        b.iter(|| flash(&model, black_box(&Z), FlashSpec::BubbleTemperature { pressure: p }))
+    });
+    let comps = model.components().to_vec();
+    g.bench_function("baseline: bubble T by bisection", |b| {
+        b.iter(|| {
+            let (mut lo, mut hi) = (150.0f64, 600.0f64);
+            while hi - lo > 1e-13 * hi {
+                let mid = 0.5 * (lo + hi);
+                let s: f64 = comps.iter().zip(&Z).map(|(c, z)| z * c.vapour_pressure().psat_pa(mid)).sum();
+                if s > 3e5 { hi = mid } else { lo = mid }
+            }
+            black_box(lo)
+        })
+    });
+    g.finish();
+
+    let stream = Stream::from_names(&NAMES, &Z, MolarFlow::new("flow", 10.0).expect("flow")).expect("stream");
+    let inlet = StreamState::TemperaturePressure { temperature: Temperature::new("T", 300.0).expect("T"), pressure: p };
+    let outlet = StreamState::TemperaturePressure { temperature: t, pressure: p };
+    let o = DutyOptions::default();
+    let duty = heater_duty(&stream, inlet, outlet, o).expect("duty").duty_w;
+    let mut g = c.benchmark_group("duty n=10");
+    g.measurement_time(Duration::from_secs(2)).warm_up_time(Duration::from_millis(500));
+    g.bench_function("baseline: two T-P flashes", |b| {
+        b.iter(|| {
+            let a = flash(&model, &Z, FlashSpec::TemperaturePressure { temperature: Temperature::new("T", 300.0).expect("T"), pressure: p });
+            let b2 = flash(&model, &Z, FlashSpec::TemperaturePressure { temperature: t, pressure: p });
+            black_box((a, b2))
+        })
+    });
+    g.bench_function("heater duty (T-P to T-P)", |b| b.iter(|| heater_duty(&stream, black_box(inlet), outlet, o)));
+    let q = Power::new("duty", duty).expect("duty");
+    g.bench_function("duty-specified flash", |b| b.iter(|| outlet_for_duty(&stream, black_box(inlet), q, p, o)));
+    g.finish();
+}
+
+criterion_group!(benches, bench);
+criterion_main!(benches);

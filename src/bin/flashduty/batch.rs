@@ -1,0 +1,179 @@
+//! `--batch FILE.csv`: every row of a spreadsheet computed in parallel, written as CSV
+//! (default) or JSON lines, in input order, with an `error` column for rows that fail.
+
+use crate::case::{Command, parse_case};
+use crate::check::lookup;
+use crate::compute;
+use crate::error::{CliError, CliResult};
+use crate::sheet::{self, Role, Sheet};
+use flashduty::library::Library;
+use indicatif::{ProgressBar, ProgressDrawTarget, ProgressStyle};
+use rayon::prelude::*;
+use serde_json::{Value, json};
+use std::io::IsTerminal;
+
+/// Rows above which a progress bar is shown (when stderr is a terminal).
+const PROGRESS_ROWS: usize = 200;
+
+/// The CSV columns of each command's batch output (output keys, dotted).
+fn columns(command: Command) -> &'static [&'static str] {
+    match command {
+        Command::Flash | Command::Bubble | Command::Dew => &[
+            "phase",
+            "vapour_fraction",
+            "liquid_fraction",
+            "T_K",
+            "P_Pa",
+            "components",
+            "z",
+            "x",
+            "y",
+            "K",
+            "flow_mol_s",
+            "iterations",
+            "sensitivity.dvapour_fraction_dT_per_K",
+            "sensitivity.dvapour_fraction_dP_per_Pa",
+        ],
+        Command::Duty => &[
+            "duty_W",
+            "flow_mol_s",
+            "inlet.T_K",
+            "inlet.P_Pa",
+            "inlet.phase",
+            "inlet.vapour_fraction",
+            "outlet.T_K",
+            "outlet.P_Pa",
+            "outlet.phase",
+            "outlet.vapour_fraction",
+            "components",
+            "z",
+            "outlet.x",
+            "outlet.y",
+            "dduty_dT_out_W_per_K",
+            "path_spread.spread_W",
+            "path_spread.relative",
+        ],
+        Command::Curve => &["duty_W", "bubble_T_K", "dew_T_K", "P_Pa"],
+    }
+}
+
+/// A JSON value as one CSV cell: numbers in full precision, lists joined by `;`.
+fn cell(v: Option<&Value>) -> String {
+    match v {
+        None | Some(Value::Null) => String::new(),
+        Some(Value::String(s)) => s.clone(),
+        Some(Value::Number(n)) => n.to_string(),
+        Some(Value::Bool(b)) => b.to_string(),
+        Some(Value::Array(items)) => items.iter().map(|i| cell(Some(i))).collect::<Vec<_>>().join(";"),
+        Some(other) => other.to_string(),
+    }
+}
+
+fn warnings_cell(v: &Value) -> String {
+    v.get("warnings")
+        .and_then(Value::as_array)
+        .map(|ws| {
+            ws.iter()
+                .filter_map(|w| w.get("message").and_then(Value::as_str))
+                .collect::<Vec<_>>()
+                .join(" | ")
+        })
+        .unwrap_or_default()
+}
+
+fn run_row(lib: &Library, sheet: &Sheet, command: Command, row: &sheet::Row) -> (Option<String>, Result<Value, String>) {
+    let cells = match &row.cells {
+        Ok(c) => c,
+        Err(e) => return (None, Err(e.clone())),
+    };
+    let get = |role: Role| {
+        sheet
+            .columns
+            .iter()
+            .zip(cells)
+            .find(|(c, v)| c.role == role && !v.trim().is_empty())
+            .map(|(_, v)| v.trim().to_string())
+    };
+    let id = get(Role::Id);
+    if let Some(c) = get(Role::Command) {
+        if Command::from_name(&c) != Some(command) {
+            return (id, Err(format!("command: '{c}' in a {} batch (leave the cell empty or write {})", command.name(), command.name())));
+        }
+    }
+    let out = sheet::case_value(&sheet.columns, cells)
+        .and_then(|v| parse_case(&v, command))
+        .and_then(|case| compute::run(lib, command, &case, None))
+        .map(|o| o.to_json())
+        .map_err(|e| e.to_string());
+    (id, out)
+}
+
+/// Runs the batch and returns the output text.
+pub fn run(lib: &Library, command: Command, name: &str, bytes: &[u8], json_lines: bool) -> CliResult<String> {
+    let sheet = sheet::read(name, bytes)?;
+    let n = sheet.rows.len();
+    let bar = if n >= PROGRESS_ROWS && std::io::stderr().is_terminal() {
+        let b = ProgressBar::with_draw_target(Some(n as u64), ProgressDrawTarget::stderr());
+        if let Ok(style) = ProgressStyle::with_template("{bar:40} {pos}/{len} rows ({eta} left)") {
+            b.set_style(style);
+        }
+        b
+    } else {
+        ProgressBar::hidden()
+    };
+    let results: Vec<(Option<String>, Result<Value, String>)> = sheet
+        .rows
+        .par_iter()
+        .map(|r| {
+            let out = run_row(lib, &sheet, command, r);
+            bar.inc(1);
+            out
+        })
+        .collect();
+    bar.finish_and_clear();
+
+    if json_lines {
+        let mut out = String::new();
+        for (row, (id, r)) in sheet.rows.iter().zip(results) {
+            let mut v = match r {
+                Ok(v) => v,
+                Err(e) => json!({"command": command.name(), "error": e}),
+            };
+            if let Value::Object(m) = &mut v {
+                m.insert("row".into(), json!(row.line));
+                m.insert("id".into(), json!(id));
+                m.entry("error").or_insert(Value::Null);
+                m.remove("caution");
+            }
+            out.push_str(&v.to_string());
+            out.push('\n');
+        }
+        return Ok(out);
+    }
+
+    let mut w = csv::WriterBuilder::new().from_writer(Vec::new());
+    let keys = columns(command);
+    let mut header = vec!["row", "id"];
+    header.extend_from_slice(keys);
+    header.extend_from_slice(&["warnings", "error"]);
+    let io = |e: csv::Error| CliError::new(format!("batch output: {e}"));
+    w.write_record(&header).map_err(io)?;
+    for (row, (id, r)) in sheet.rows.iter().zip(results) {
+        let mut record = vec![row.line.to_string(), id.unwrap_or_default()];
+        match r {
+            Ok(v) => {
+                record.extend(keys.iter().map(|k| cell(lookup(&v, k))));
+                record.push(warnings_cell(&v));
+                record.push(String::new());
+            }
+            Err(e) => {
+                record.extend(keys.iter().map(|_| String::new()));
+                record.push(String::new());
+                record.push(e);
+            }
+        }
+        w.write_record(&record).map_err(io)?;
+    }
+    let bytes = w.into_inner().map_err(|e| CliError::new(format!("batch output: {e}")))?;
+    String::from_utf8(bytes).map_err(|_| CliError::new("batch output: not UTF-8"))
+}
