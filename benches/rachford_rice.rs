@@ -13,7 +13,16 @@
 //! After the runs a table of per-solve medians (criterion's median estimate) and ratios is
 //! printed, read back from criterion's `estimates.json` files.
 //!
+//! Columns: "our it" is [`SplitSummary::iterations`] (Newton or bisection steps after the
+//! phase test; the phase test's evaluation at β = ½ also supplies the first Newton step),
+//! "our evals" counts every pass over the components that evaluates F or G, phase tests
+//! included ([`SplitSummary::evaluations`]); bisection and Brent count evaluations of F (the
+//! `roots` implementation re-evaluates F at the bracket ends on every iteration).
+//!
 //! Run: `cargo bench --bench rachford_rice` (about a minute).
+//!
+//! [`SplitSummary::iterations`]: flashduty::rachford_rice::SplitSummary::iterations
+//! [`SplitSummary::evaluations`]: flashduty::rachford_rice::SplitSummary::evaluations
 
 use std::hint::black_box;
 use std::path::PathBuf;
@@ -55,7 +64,10 @@ fn feeds(n: usize, seed: u64) -> Vec<Feed> {
         let mut z: Vec<f64> = (0..n).map(|_| -(1.0 - rng.uniform()).ln() + 1e-300).collect();
         let sum: f64 = z.iter().sum();
         z.iter_mut().for_each(|v| *v /= sum);
-        let k: Vec<f64> = (0..n).map(|_| (rng.uniform() * 2.0 - 1.0) * 2.0).map(|e| 10f64.powf(e)).collect();
+        let k: Vec<f64> = (0..n)
+            .map(|_| (rng.uniform() * 2.0 - 1.0) * 2.0)
+            .map(|e| 10f64.powf(e))
+            .collect();
         let f0: f64 = z.iter().zip(&k).map(|(z, k)| z * (k - 1.0)).sum();
         let f1: f64 = z.iter().zip(&k).map(|(z, k)| z * (k - 1.0) / k).sum();
         if f0 > 0.0 && f1 < 0.0 {
@@ -152,12 +164,19 @@ fn criterion_dir() -> PathBuf {
         return PathBuf::from(home);
     }
     let exe = std::env::current_exe().unwrap_or_default();
-    exe.ancestors().nth(3).map(|t| t.join("criterion")).unwrap_or_else(|| PathBuf::from("target/criterion"))
+    exe.ancestors()
+        .nth(3)
+        .map(|t| t.join("criterion"))
+        .unwrap_or_else(|| PathBuf::from("target/criterion"))
 }
 
 /// Criterion's median estimate (ns per iteration, here per solve) for one benchmark.
 fn median_ns(group: &str, method: &str) -> Option<f64> {
-    let path = criterion_dir().join(group).join(method).join("new").join("estimates.json");
+    let path = criterion_dir()
+        .join(group)
+        .join(method)
+        .join("new")
+        .join("estimates.json");
     let text = std::fs::read_to_string(path).ok()?;
     let v: serde_json::Value = serde_json::from_str(&text).ok()?;
     v["median"]["point_estimate"].as_f64()
@@ -177,22 +196,27 @@ fn main() {
 
         // Iteration counts and agreement, outside the timing.
         let mut ours_it = Vec::new();
+        let mut ours_ev = Vec::new();
         let mut bis_ev = Vec::new();
         let mut brent_ev = Vec::new();
         let mut worst_diff: f64 = 0.0;
         for f in &set {
             let s = solve_into(&f.z, &f.k, Options::default(), &mut x, &mut y).expect("valid feed");
             ours_it.push(f64::from(s.iterations));
+            ours_ev.push(f64::from(s.evaluations));
             let (b1, e1) = bisection(&f.z, &f.k, &mut x, &mut y);
             let (b2, e2) = brent(&f.z, &f.k, &mut x, &mut y);
             bis_ev.push(f64::from(e1));
             brent_ev.push(f64::from(e2));
-            worst_diff = worst_diff.max((s.vapour_fraction - b1).abs()).max((s.vapour_fraction - b2).abs());
+            worst_diff = worst_diff
+                .max((s.vapour_fraction - b1).abs())
+                .max((s.vapour_fraction - b2).abs());
         }
         stats.push((
             n,
             mean(ours_it.iter().copied()),
             ours_it.iter().copied().fold(0.0, f64::max),
+            mean(ours_ev.into_iter()),
             mean(bis_ev.into_iter()),
             mean(brent_ev.into_iter()),
             worst_diff,
@@ -228,10 +252,21 @@ fn main() {
     println!();
     println!("Per-solve medians over {FEEDS} two-phase feeds (K log-uniform in 0.01..100):");
     println!(
-        "{:>4} {:>10} {:>12} {:>10} {:>9} {:>9} | {:>8} {:>8} {:>11} {:>11} {:>10}",
-        "n", "ours ns", "bisection ns", "brent ns", "bis/ours", "brent/ours", "our it", "max it", "bis. evals", "brent evals", "max |Δβ|"
+        "{:>4} {:>10} {:>12} {:>10} {:>9} {:>9} | {:>8} {:>8} {:>9} {:>11} {:>11} {:>10}",
+        "n",
+        "ours ns",
+        "bisection ns",
+        "brent ns",
+        "bis/ours",
+        "brent/ours",
+        "our it",
+        "max it",
+        "our evals",
+        "bis. evals",
+        "brent evals",
+        "max |Δβ|"
     );
-    for (n, it, max_it, bis, br, diff) in stats {
+    for (n, it, max_it, ev, bis, br, diff) in stats {
         let group = format!("rachford_rice_n{n}");
         let m: Vec<Option<f64>> = METHODS.iter().map(|m| median_ns(&group, m)).collect();
         let show = |v: Option<f64>| v.map_or("-".to_string(), |v| format!("{v:.1}"));
@@ -240,7 +275,7 @@ fn main() {
             _ => "-".to_string(),
         };
         println!(
-            "{:>4} {:>10} {:>12} {:>10} {:>9} {:>9} | {:>8.2} {:>8} {:>11.1} {:>11.1} {:>10.1e}",
+            "{:>4} {:>10} {:>12} {:>10} {:>9} {:>9} | {:>8.2} {:>8} {:>9.2} {:>11.1} {:>11.1} {:>10.1e}",
             n,
             show(m[0]),
             show(m[1]),
@@ -249,6 +284,7 @@ fn main() {
             ratio(m[2], m[0]),
             it,
             max_it,
+            ev,
             bis,
             br,
             diff

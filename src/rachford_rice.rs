@@ -294,8 +294,8 @@ pub fn solve_into(
 
     // Phase tests. F(0) needs no division.
     let mut f0 = 0.0;
-    for i in 0..n {
-        f0 += zn(i) * (k[i] - 1.0);
+    for (i, &ki) in k.iter().enumerate() {
+        f0 += zn(i) * (ki - 1.0);
     }
     let mut evaluations = 1;
     let liquid = |x: &mut [f64], y: &mut [f64], evaluations| {
@@ -319,11 +319,20 @@ pub fn solve_into(
         }
         return Ok(liquid(x, y, evaluations));
     }
-    let mut f1 = 0.0;
-    for i in 0..n {
-        if z[i] > 0.0 {
-            f1 += zn(i) * (k[i] - 1.0) / k[i];
+    // F(1), and with it F(½), F'(½) and Σ|terms of F(½)| (used only for a two-phase feed:
+    // they choose the orientation and give the first Newton step for free).
+    let (mut f1, mut f_half, mut df_half, mut scale_half) = (0.0, 0.0, 0.0, 0.0);
+    for (i, &ki) in k.iter().enumerate() {
+        let t = ki - 1.0;
+        let zi = zn(i);
+        if zi > 0.0 {
+            f1 += zi * t / ki;
         }
+        let r = t / (1.0 + 0.5 * t);
+        let term = zi * r;
+        f_half += term;
+        df_half -= term * r;
+        scale_half += term.abs();
     }
     evaluations += 1;
     if f1 >= 0.0 {
@@ -347,11 +356,6 @@ pub fn solve_into(
     }
 
     // Two phases. F(½) chooses the orientation: G(s) = F(β) with s = β, or −F(β) with s = 1 − β.
-    let mut f_half = 0.0;
-    for i in 0..n {
-        let t = k[i] - 1.0;
-        f_half += zn(i) * t / (1.0 + 0.5 * t);
-    }
     evaluations += 1;
     let orientation = if f_half < 0.0 {
         Orientation::Liquid
@@ -369,19 +373,27 @@ pub fn solve_into(
     let (ln_lo, ln_hi) = problem.window();
     let mut lo = ln_lo.max(0.0);
     let mut hi = ln_hi.min(0.5);
-    if !(lo < hi) {
+    if lo >= hi {
+        // (lo and hi are never NaN: max/min drop a NaN bound.)
         // Round-off can cross the bounds only when the window has collapsed onto the root.
         let s = (0.5 * (lo + hi)).clamp(f64::MIN_POSITIVE, 0.5);
         problem.write(s, x, y);
         return Ok(problem.summary(s, 0, evaluations));
     }
 
-    let mut s = hi;
+    // Start at ½ with the values from the phase test when the window allows, else at hi.
+    // G(½) = ∓F(½) by orientation; dG/ds(½) = F'(½) in both.
     let mut iterations = 0;
-    loop {
-        let (g, dg, scale) = problem.g_and_slope(s);
+    let (mut s, mut g, mut dg, mut scale) = if hi == 0.5 {
+        let g = if orientation == Orientation::Liquid { f_half } else { -f_half };
+        (0.5, g, df_half, scale_half)
+    } else {
+        let (g, dg, scale) = problem.g_and_slope(hi);
         evaluations += 1;
         iterations += 1;
+        (hi, g, dg, scale)
+    };
+    loop {
         if g == 0.0 {
             break;
         }
@@ -421,6 +433,9 @@ pub fn solve_into(
             break;
         }
         s = next;
+        (g, dg, scale) = problem.g_and_slope(s);
+        evaluations += 1;
+        iterations += 1;
     }
     problem.write(s, x, y);
     Ok(problem.summary(s, iterations, evaluations))
@@ -467,16 +482,35 @@ impl<'a> Oriented<'a> {
             pole_lo: f64::NEG_INFINITY,
             pole_hi: f64::INFINITY,
         };
-        for i in 0..z.len() {
-            if z[i] == 0.0 {
+        // −p/a increases with a in both orientations (−1/a, or 1 − 1/a with p = 1 − a), so
+        // the nearest poles belong to the largest positive and the most negative a: one
+        // division each instead of one per component.
+        // Equal (rounded) a with different p can occur in the vapour orientation (a = 1 − K
+        // rounds); such ties are settled by the poles themselves.
+        let (mut lo_i, mut hi_i) = (usize::MAX, usize::MAX);
+        let (mut a_max, mut a_min) = (0.0, 0.0);
+        let pole = |i: usize| {
+            let (p, a) = me.coefficients(i);
+            -p / a
+        };
+        for (i, &zi) in z.iter().enumerate() {
+            if zi == 0.0 {
                 continue;
             }
-            let (p, a) = me.coefficients(i);
-            if a > 0.0 {
-                me.pole_lo = me.pole_lo.max(-p / a);
-            } else if a < 0.0 {
-                me.pole_hi = me.pole_hi.min(-p / a);
+            let (_, a) = me.coefficients(i);
+            if a > 0.0 && (a > a_max || (a == a_max && pole(i) > pole(lo_i))) {
+                (a_max, lo_i) = (a, i);
+            } else if a < 0.0 && (a < a_min || (a == a_min && pole(i) < pole(hi_i))) {
+                (a_min, hi_i) = (a, i);
             }
+        }
+        if lo_i != usize::MAX {
+            let (p, a) = me.coefficients(lo_i);
+            me.pole_lo = -p / a;
+        }
+        if hi_i != usize::MAX {
+            let (p, a) = me.coefficients(hi_i);
+            me.pole_hi = -p / a;
         }
         me
     }
@@ -552,6 +586,46 @@ impl<'a> Oriented<'a> {
         }
     }
 
+    /// The denominator pᵢ + s aᵢ at s = s₋ + r, written cᵢ + r aᵢ with cᵢ = pᵢ + s₋aᵢ its
+    /// value at the nearest pole s₋, taken as exactly 0 for the component(s) whose pole it
+    /// is. s₋ + r rounds away any r below ε|s₋|; this form keeps the pole component's
+    /// denominator, aᵢr, to full precision however close the root is to the pole.
+    #[inline]
+    fn denominator_from_pole(&self, i: usize, r: f64) -> f64 {
+        let (p, a) = self.coefficients(i);
+        let pole = self.pole_lo;
+        let c = if a > 0.0 && -p / a == pole { 0.0 } else { p + pole * a };
+        c + r * a
+    }
+
+    /// [`g_and_slope`](Self::g_and_slope) at s = s₋ + r, through
+    /// [`denominator_from_pole`](Self::denominator_from_pole); zero-feed components skipped.
+    fn g_and_slope_from_pole(&self, r: f64) -> (f64, f64, f64) {
+        let (mut g, mut dg, mut scale) = (0.0, 0.0, 0.0);
+        for i in 0..self.z.len() {
+            if self.z[i] == 0.0 {
+                continue;
+            }
+            let (_, a) = self.coefficients(i);
+            let zi = self.z[i] * self.inv_sum;
+            let q = a / self.denominator_from_pole(i, r);
+            let term = zi * q;
+            g += term;
+            dg -= term * q;
+            scale += term.abs();
+        }
+        (g, dg, scale)
+    }
+
+    /// [`write`](Self::write) at s = s₋ + r.
+    fn write_from_pole(&self, r: f64, x: &mut [f64], y: &mut [f64]) {
+        for i in 0..self.z.len() {
+            let zi = self.z[i] * self.inv_sum;
+            x[i] = if zi == 0.0 { 0.0 } else { zi / self.denominator_from_pole(i, r) };
+            y[i] = self.k[i] * x[i];
+        }
+    }
+
     fn summary(&self, s: f64, iterations: u32, evaluations: u32) -> SplitSummary {
         let (vapour_fraction, liquid_fraction) = match self.orientation {
             Orientation::Liquid => (s, 1.0 - s),
@@ -589,7 +663,7 @@ fn negative_root(
     let mut evaluations = 2;
     loop {
         let s = pole + r;
-        let (g, dg, scale) = problem.g_and_slope(s);
+        let (g, dg, scale) = problem.g_and_slope_from_pole(r);
         evaluations += 1;
         iterations += 1;
         if g == 0.0 {
@@ -605,7 +679,7 @@ fn negative_root(
             let candidate = r - g / denominator;
             if candidate.is_finite() && g.abs() <= ROUND_OFF * f64::EPSILON * scale {
                 // G is down to its round-off (see `solve_into`).
-                r = candidate.clamp(lo.max(f64::MIN_POSITIVE), hi);
+                r = candidate.max(lo.max(f64::MIN_POSITIVE)).min(hi);
                 break;
             }
             if candidate > lo && candidate < hi && candidate.is_finite() {
@@ -617,13 +691,14 @@ fn negative_root(
             float_midpoint(lo, hi)
         };
         if next <= lo || next >= hi || (next - r).abs() <= 2.0 * f64::EPSILON * next {
-            r = next.clamp(lo.max(f64::MIN_POSITIVE), hi);
+            // (max/min, not clamp: clamp panics if hi has fallen below MIN_POSITIVE.)
+            r = next.max(lo.max(f64::MIN_POSITIVE)).min(hi);
             break;
         }
         r = next;
     }
     let s = pole + r;
-    problem.write(s, x, y);
+    problem.write_from_pole(r, x, y);
     let mut summary = problem.summary(s, iterations, evaluations);
     summary.phase = match orientation {
         Orientation::Liquid => Phase::Liquid,
@@ -636,7 +711,9 @@ fn negative_root(
 // Batch API: many feeds at once, rows of two-dimensional arrays.
 // ---------------------------------------------------------------------------------------
 
-use ndarray::{Array1, Array2, ArrayView1, ArrayView2, ArrayViewMut1, ArrayViewMut2, Axis};
+#[cfg(feature = "rayon")]
+use ndarray::Axis;
+use ndarray::{Array1, Array2, ArrayView1, ArrayView2, ArrayViewMut1, ArrayViewMut2};
 
 /// Preallocated outputs of [`solve_batch`]: entry or row `r` belongs to feed `r`.
 ///

@@ -149,7 +149,9 @@ const PRESSURE_UNITS: &[UnitDef] = &[
     // Plain "psi" and gauge units are refused: a gauge reading needs the local
     // atmosphere, and the flash needs an absolute pressure.
     unit(&["psia"], PSI_PA),
-    unit(&["mmHg", "torr", "Torr"], MMHG_PA),
+    unit(&["mmHg"], MMHG_PA),
+    // 1 torr = 101325/760 Pa exactly, about 1.4e-7 below the conventional mmHg.
+    unit(&["torr", "Torr"], ATM_PA / 760.0),
 ];
 
 const MOLAR_FLOW_UNITS: &[UnitDef] = &[

@@ -71,7 +71,7 @@ pub enum EnergyError {
         value: usize,
     },
     /// No temperature between 1 K and 10 000 K gives the required enthalpy.
-    #[error("duty: {duty_w} W cannot be reached at the outlet pressure between 1 K and 10000 K")]
+    #[error("duty: {duty_w:.6e} W cannot be reached at the outlet pressure between 1 K and 10000 K")]
     DutyOutOfReach {
         /// The duty asked for, W.
         duty_w: f64,
@@ -149,7 +149,7 @@ impl Stream {
             }
             total += f;
         }
-        if !(total > 0.0) {
+        if total <= 0.0 {
             return Err(EnergyError::BadFlow {
                 index: 0,
                 value: total,

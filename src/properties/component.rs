@@ -506,11 +506,11 @@ impl Component {
         };
         for (field, model) in [("liquid_heat_capacity", &liquid_cp), ("vapour_heat_capacity", &vapour_cp)] {
             let mid = 0.5 * (model.validity().min_k + model.validity().max_k.min(2.0 * tc));
-            if !(model.cp(mid) > 0.0) {
+            if model.cp(mid).partial_cmp(&0.0) != Some(std::cmp::Ordering::Greater) {
                 return Err(invalid(n, field, mid, "heat capacity is not positive inside its range"));
             }
         }
-        if !(latent_heat.latent_heat(tb) > 0.0) {
+        if latent_heat.latent_heat(tb).partial_cmp(&0.0) != Some(std::cmp::Ordering::Greater) {
             return Err(invalid(n, "latent_heat", tb, "latent heat is not positive at the boiling point"));
         }
 

@@ -81,23 +81,27 @@ fn warnings_cell(v: &Value) -> String {
         .unwrap_or_default()
 }
 
-fn run_row(lib: &Library, sheet: &Sheet, command: Command, row: &sheet::Row) -> (Option<String>, Result<Value, String>) {
-    let cells = match &row.cells {
-        Ok(c) => c,
-        Err(e) => return (None, Err(e.clone())),
-    };
-    let get = |role: Role| {
-        sheet
-            .columns
-            .iter()
-            .zip(cells)
-            .find(|(c, v)| c.role == role && !v.trim().is_empty())
-            .map(|(_, v)| v.trim().to_string())
-    };
-    let id = get(Role::Id);
-    if let Some(c) = get(Role::Command) {
-        if Command::from_name(&c) != Some(command) {
-            return (id, Err(format!("command: '{c}' in a {} batch (leave the cell empty or write {})", command.name(), command.name())));
+fn run_row(
+    lib: &Library,
+    sheet: &Sheet,
+    command: Command,
+    row: &sheet::Row,
+) -> (Option<String>, Result<Value, String>) {
+    let id = row.cell(&sheet.columns, &Role::Id).map(str::to_string);
+    if let Some(e) = &row.error {
+        return (id, Err(e.clone()));
+    }
+    let cells = &row.cells;
+    if let Some(c) = row.cell(&sheet.columns, &Role::Command) {
+        if Command::from_name(c) != Some(command) {
+            return (
+                id,
+                Err(format!(
+                    "command: '{c}' in a {} batch (leave the cell empty or write {})",
+                    command.name(),
+                    command.name()
+                )),
+            );
         }
     }
     let out = sheet::case_value(&sheet.columns, cells)
@@ -174,6 +178,8 @@ pub fn run(lib: &Library, command: Command, name: &str, bytes: &[u8], json_lines
         }
         w.write_record(&record).map_err(io)?;
     }
-    let bytes = w.into_inner().map_err(|e| CliError::new(format!("batch output: {e}")))?;
+    let bytes = w
+        .into_inner()
+        .map_err(|e| CliError::new(format!("batch output: {e}")))?;
     String::from_utf8(bytes).map_err(|_| CliError::new("batch output: not UTF-8"))
 }

@@ -29,7 +29,13 @@ pub enum Command {
 
 impl Command {
     /// Every command that takes a case.
-    pub const ALL: [Command; 5] = [Command::Flash, Command::Bubble, Command::Dew, Command::Duty, Command::Curve];
+    pub const ALL: [Command; 5] = [
+        Command::Flash,
+        Command::Bubble,
+        Command::Dew,
+        Command::Duty,
+        Command::Curve,
+    ];
 
     /// The command's name on the command line.
     pub fn name(self) -> &'static str {
@@ -51,7 +57,17 @@ impl Command {
     /// The top-level keys this command reads.
     fn keys(self) -> &'static [&'static str] {
         match self {
-            Command::Flash => &["note", "components", "z", "flows", "K", "T", "P", "vapour_fraction", "flow"],
+            Command::Flash => &[
+                "note",
+                "components",
+                "z",
+                "flows",
+                "K",
+                "T",
+                "P",
+                "vapour_fraction",
+                "flow",
+            ],
             Command::Bubble | Command::Dew => &["note", "components", "z", "flows", "T", "P", "flow"],
             Command::Duty => &[
                 "note",
@@ -229,27 +245,57 @@ pub fn read_case_text(arg: &str) -> CliResult<(String, String)> {
 
 /// Whether the file name asks for TOML.
 pub fn is_toml_name(name: &str) -> bool {
-    Path::new(name).extension().is_some_and(|e| e.eq_ignore_ascii_case("toml"))
+    Path::new(name)
+        .extension()
+        .is_some_and(|e| e.eq_ignore_ascii_case("toml"))
 }
 
 /// Parses case text: TOML when `name` ends in `.toml`, JSON otherwise. Text on standard
-/// input is JSON when it starts with `{`, else TOML.
+/// input is JSON when it parses as JSON or starts with `{`, else TOML.
 pub fn parse_text(name: &str, text: &str) -> CliResult<Value> {
     let text = text.strip_prefix('\u{feff}').unwrap_or(text);
-    let toml = if name == "<stdin>" {
-        !text.trim_start().starts_with('{') && !text.trim().is_empty()
-    } else {
-        is_toml_name(name)
-    };
-    let value: Value = if toml {
-        toml::from_str(text).map_err(|e| CliError::new(format!("{name}: malformed TOML: {e}")))?
+    if text.trim().is_empty() {
+        bail!("{name}: empty (expected a case: a JSON object, or TOML)");
+    }
+    let value: Value = if name == "<stdin>" {
+        match serde_json::from_str(text) {
+            Ok(v) => v,
+            Err(e) if text.trim_start().starts_with(['{', '[']) => bail!("{name}: malformed JSON: {e}"),
+            Err(_) => toml_value(name, text)?,
+        }
+    } else if is_toml_name(name) {
+        toml_value(name, text)?
     } else {
         serde_json::from_str(text).map_err(|e| CliError::new(format!("{name}: malformed JSON: {e}")))?
     };
     if !value.is_object() {
-        bail!("{name}: the case must be an object of keys and values, not {}", kind_of(&value));
+        bail!(
+            "{name}: the case must be an object of keys and values, not {}",
+            kind_of(&value)
+        );
     }
     Ok(value)
+}
+
+/// TOML text as a JSON value. TOML's `nan` and `inf` become the text "NaN" and "inf", so that
+/// the field they are in is named as not finite (JSON numbers cannot hold them).
+pub fn toml_value(name: &str, text: &str) -> CliResult<Value> {
+    let v: toml::Value = toml::from_str(text).map_err(|e| CliError::new(format!("{name}: malformed TOML: {e}")))?;
+    Ok(from_toml(v))
+}
+
+fn from_toml(v: toml::Value) -> Value {
+    match v {
+        toml::Value::String(s) => Value::String(s),
+        toml::Value::Integer(i) => Value::from(i),
+        toml::Value::Float(f) => {
+            serde_json::Number::from_f64(f).map_or_else(|| Value::String(f.to_string()), Value::Number)
+        }
+        toml::Value::Boolean(b) => Value::Bool(b),
+        toml::Value::Datetime(d) => Value::String(d.to_string()),
+        toml::Value::Array(a) => Value::Array(a.into_iter().map(from_toml).collect()),
+        toml::Value::Table(t) => Value::Object(t.into_iter().map(|(k, v)| (k, from_toml(v))).collect()),
+    }
 }
 
 /// "a number", "a string", ... for messages.
@@ -287,8 +333,14 @@ pub fn suggest_key(key: &str, known: &[&str]) -> Option<String> {
         }
     }
     let mut best: Option<(usize, &str)> = None;
-    for k in known {
-        let d = edit_distance(&lower, &k.to_lowercase());
+    let candidates = known.iter().map(|k| (k.to_lowercase(), *k)).chain(
+        ALIASES
+            .iter()
+            .filter(|(_, k)| known.contains(k))
+            .map(|(a, k)| (a.to_string(), *k)),
+    );
+    for (spelling, k) in candidates {
+        let d = edit_distance(&lower, &spelling);
         if best.is_none_or(|(bd, _)| d < bd) {
             best = Some((d, k));
         }
@@ -315,10 +367,16 @@ pub fn edit_distance(a: &str, b: &str) -> usize {
 
 fn unknown_key(prefix: &str, key: &str, known: &[&str]) -> CliError {
     let full = format!("{prefix}{key}");
-    let hint = suggest_key(key, known).map(|k| format!(" (did you mean '{prefix}{k}'?)")).unwrap_or_default();
+    let hint = suggest_key(key, known)
+        .map(|k| format!(" (did you mean '{prefix}{k}'?)"))
+        .unwrap_or_default();
     CliError::new(format!(
         "unknown key '{full}'{hint}; known keys{}: {}",
-        if prefix.is_empty() { String::new() } else { format!(" of '{}'", prefix.trim_end_matches('.')) },
+        if prefix.is_empty() {
+            String::new()
+        } else {
+            format!(" of '{}'", prefix.trim_end_matches('.'))
+        },
         known.join(", ")
     ))
 }
@@ -381,7 +439,11 @@ fn quantity<Q>(
     match v {
         Value::Number(_) => Ok(new(field, number(field, v)?)?),
         Value::String(s) => Ok(parse(field, s)?),
-        other => bail!("{field}: expected a number or a string like '{example}', got {} {}", kind_of(other), show(other)),
+        other => bail!(
+            "{field}: expected a number or a string like '{example}', got {} {}",
+            kind_of(other),
+            show(other)
+        ),
     }
 }
 
@@ -394,16 +456,46 @@ pub fn temperature(field: &str, v: &Value) -> CliResult<Temperature> {
     );
     if !(lo..=hi).contains(&t.kelvin()) {
         bail!(
-            "{field}: {} K is outside the range the calculations cover ({lo} K to {hi} K)",
-            t.kelvin()
+            "{field}: {} is outside the range the calculations cover ({lo} K to {hi} K)",
+            given(v, t.kelvin(), "K")
         );
     }
     Ok(t)
 }
 
+/// The lowest pressure the tool accepts, Pa.
+pub const MIN_PRESSURE_PA: f64 = 1e-3;
+/// The highest pressure the tool accepts, Pa (1 GPa: far beyond any ideal-mixture model).
+pub const MAX_PRESSURE_PA: f64 = 1e9;
+
+/// The value as the user gave it, for messages ("1e300 K", "'3 bar'").
+fn given(v: &Value, si: f64, unit: &str) -> String {
+    match v {
+        Value::String(s) => format!("'{}'", s.trim()),
+        _ => format!("{} {unit}", short_number(si)),
+    }
+}
+
+/// A number in a short form for messages.
+pub fn short_number(x: f64) -> String {
+    if x != 0.0 && (x.abs() >= 1e9 || x.abs() < 1e-4) {
+        format!("{x:e}")
+    } else {
+        format!("{x}")
+    }
+}
+
 /// A pressure: a number in Pa or a string with a unit.
 pub fn pressure(field: &str, v: &Value) -> CliResult<Pressure> {
-    quantity(field, v, Pressure::new, Pressure::parse, "1 atm")
+    let p = quantity(field, v, Pressure::new, Pressure::parse, "1 atm")?;
+    if !(MIN_PRESSURE_PA..=MAX_PRESSURE_PA).contains(&p.pascal()) {
+        bail!(
+            "{field}: {} is outside the range the tool accepts ({MIN_PRESSURE_PA} Pa to {} Pa)",
+            given(v, p.pascal(), "Pa"),
+            short_number(MAX_PRESSURE_PA)
+        );
+    }
+    Ok(p)
 }
 
 /// A duty: a number in W or a string with a unit.
@@ -434,9 +526,7 @@ fn any_flow(field: &str, v: &Value) -> CliResult<TotalFlow> {
                 Ok(m) => Ok(TotalFlow::Mass(m)),
                 Err(UnitError::UnknownUnit {
                     accepted: mass_units, ..
-                }) => bail!(
-                    "{field}: unknown flow unit '{unit}' (molar: {molar_units}; mass: {mass_units})"
-                ),
+                }) => bail!("{field}: unknown flow unit '{unit}' (molar: {molar_units}; mass: {mass_units})"),
                 Err(e) => Err(e.into()),
             },
             Err(e) => Err(e.into()),
@@ -475,9 +565,7 @@ fn component_flow(field: &str, v: &Value) -> CliResult<ComponentFlow> {
                     Ok(x) => Ok(ComponentFlow::Mass(check(x)?)),
                     Err(UnitError::UnknownUnit {
                         accepted: mass_units, ..
-                    }) => bail!(
-                        "{field}: unknown flow unit '{unit}' (molar: {molar_units}; mass: {mass_units})"
-                    ),
+                    }) => bail!("{field}: unknown flow unit '{unit}' (molar: {molar_units}; mass: {mass_units})"),
                     Err(e) => Err(e.into()),
                 },
                 Err(e) => Err(e.into()),
@@ -511,7 +599,11 @@ fn name(field: &str, v: &Value) -> CliResult<String> {
         Value::String(s) if !s.trim().is_empty() => Ok(s.trim().to_string()),
         Value::String(_) => bail!("{field}: the name is empty"),
         Value::Number(n) => Ok(n.to_string()),
-        other => bail!("{field}: expected a component name or CAS number, got {} {}", kind_of(other), show(other)),
+        other => bail!(
+            "{field}: expected a component name or CAS number, got {} {}",
+            kind_of(other),
+            show(other)
+        ),
     }
 }
 
@@ -643,10 +735,16 @@ mod tests {
 
     #[test]
     fn units_give_the_same_state() {
-        let a = parse_case(&json!({"components": ["water"], "z": [1], "T": "65 degC", "P": "1 atm"}), Command::Flash)
-            .unwrap();
-        let b = parse_case(&json!({"components": ["water"], "z": [1], "T": 338.15, "P": 101325}), Command::Flash)
-            .unwrap();
+        let a = parse_case(
+            &json!({"components": ["water"], "z": [1], "T": "65 degC", "P": "1 atm"}),
+            Command::Flash,
+        )
+        .unwrap();
+        let b = parse_case(
+            &json!({"components": ["water"], "z": [1], "T": 338.15, "P": 101325}),
+            Command::Flash,
+        )
+        .unwrap();
         assert_eq!(a.p, b.p);
         assert!((a.t.unwrap().kelvin() - b.t.unwrap().kelvin()).abs() < 1e-12);
     }
@@ -654,9 +752,15 @@ mod tests {
     #[test]
     fn unknown_keys_are_named_with_a_hint() {
         let e = parse_case(&json!({"temperature": 300}), Command::Flash).unwrap_err();
-        assert!(e.message().contains("'temperature'") && e.message().contains("'T'"), "{e}");
+        assert!(
+            e.message().contains("'temperature'") && e.message().contains("'T'"),
+            "{e}"
+        );
         let e = parse_case(&json!({"inlet": {"Temp": 300}}), Command::Duty).unwrap_err();
-        assert!(e.message().contains("inlet.Temp") && e.message().contains("inlet.T"), "{e}");
+        assert!(
+            e.message().contains("inlet.Temp") && e.message().contains("inlet.T"),
+            "{e}"
+        );
         let e = parse_case(&json!({"duty": 3}), Command::Flash).unwrap_err();
         assert!(e.message().contains("not used by the flash command"), "{e}");
     }
@@ -669,12 +773,18 @@ mod tests {
         assert!(matches!(f[1], ComponentFlow::Molar(x) if (x - 1.0).abs() < 1e-12));
         assert!(matches!(f[2], ComponentFlow::Mass(x) if (x - 0.01).abs() < 1e-12));
         let e = parse_case(&json!({"flows": ["1 furlong/s"]}), Command::Flash).unwrap_err();
-        assert!(e.message().contains("flows[0]") && e.message().contains("furlong"), "{e}");
+        assert!(
+            e.message().contains("flows[0]") && e.message().contains("furlong"),
+            "{e}"
+        );
     }
 
     #[test]
     fn suggestions() {
-        assert_eq!(suggest_key("vapor_fraction", TOP_KEYS).as_deref(), Some("vapour_fraction"));
+        assert_eq!(
+            suggest_key("vapor_fraction", TOP_KEYS).as_deref(),
+            Some("vapour_fraction")
+        );
         assert_eq!(suggest_key("componets", TOP_KEYS).as_deref(), Some("components"));
         assert_eq!(suggest_key("zzzzzzzz", TOP_KEYS), None);
     }

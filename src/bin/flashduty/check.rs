@@ -32,6 +32,8 @@ pub struct Comparison {
     pub key: String,
     /// The computed value, as shown.
     pub computed: String,
+    /// The computed value as the output holds it (null when the key is missing).
+    pub computed_value: Value,
     /// The expected value, as shown.
     pub expected: String,
     /// computed − expected (numbers only).
@@ -105,7 +107,11 @@ fn cell_number(field: &str, key: &str, text: &str, header_unit: Option<&str>, di
             bail!("{field}: '{text}' has a unit, but output '{key}' has none (give a plain number)");
         };
         let si = to_si(kind, field, value, unit)?;
-        Ok(if difference { si - to_si(kind, field, 0.0, unit)? } else { si })
+        Ok(if difference {
+            si - to_si(kind, field, 0.0, unit)?
+        } else {
+            si
+        })
     };
     if let Ok(x) = text.parse::<f64>() {
         if !x.is_finite() {
@@ -121,7 +127,9 @@ fn cell_number(field: &str, key: &str, text: &str, header_unit: Option<&str>, di
             if difference {
                 // Split the number from its unit through the unit parser, then convert.
                 let si = parse_si(k, field, text)?;
-                let unit = text.trim_start_matches(|c: char| c.is_ascii_digit() || "+-.eE".contains(c)).trim();
+                let unit = text
+                    .trim_start_matches(|c: char| c.is_ascii_digit() || "+-.eE".contains(c))
+                    .trim();
                 Ok(si - to_si(k, field, 0.0, unit)?)
             } else {
                 Ok(parse_si(k, field, text)?)
@@ -167,7 +175,11 @@ fn show_value(v: &Value) -> String {
         Value::Null => "null".into(),
         other => {
             let s = other.to_string();
-            if s.chars().count() > 40 { format!("{}...", s.chars().take(37).collect::<String>()) } else { s }
+            if s.chars().count() > 40 {
+                format!("{}...", s.chars().take(37).collect::<String>())
+            } else {
+                s
+            }
         }
     }
 }
@@ -183,6 +195,7 @@ fn compare(
     let mut c = Comparison {
         key: key.to_string(),
         computed: String::new(),
+        computed_value: Value::Null,
         expected: expected.trim().to_string(),
         deviation: None,
         allowed: None,
@@ -195,6 +208,7 @@ fn compare(
         return c;
     };
     c.computed = show_value(value);
+    c.computed_value = value.clone();
     let exp = expected.trim();
     if exp.eq_ignore_ascii_case("null") || exp.eq_ignore_ascii_case("none") {
         c.pass = value.is_null();
@@ -227,7 +241,9 @@ fn compare(
                         .parse::<f64>()
                         .ok()
                         .filter(|r| r.is_finite() && *r >= 0.0)
-                        .ok_or_else(|| CliError::new(format!("{}: '{}' is not a relative tolerance", col.header, text.trim())))?;
+                        .ok_or_else(|| {
+                            CliError::new(format!("{}: '{}' is not a relative tolerance", col.header, text.trim()))
+                        })?;
                     allowed += r * e.abs();
                     any = true;
                 }
@@ -247,7 +263,11 @@ fn compare(
             }
         }
         Value::Null => c.note = Some("the computed value is null".into()),
-        _ => c.note = Some(format!("output '{key}' is a list or object; name one entry, e.g. '{key}.0'")),
+        _ => {
+            c.note = Some(format!(
+                "output '{key}' is a list or object; name one entry, e.g. '{key}.0'"
+            ))
+        }
     }
     c
 }
@@ -261,13 +281,7 @@ fn run_row(lib: &Library, sheet: &Sheet, row: &sheet::Row) -> RowResult {
         comparisons: Vec::new(),
         error: None,
     };
-    let cells = match &row.cells {
-        Ok(c) => c,
-        Err(e) => {
-            result.error = Some(e.clone());
-            return result;
-        }
-    };
+    let cells = &row.cells;
     let cell_of = |role: &Role| -> Option<(&str, &Column)> {
         sheet
             .columns
@@ -276,7 +290,11 @@ fn run_row(lib: &Library, sheet: &Sheet, row: &sheet::Row) -> RowResult {
             .find(|(c, v)| &c.role == role && !v.trim().is_empty())
             .map(|(c, v)| (v.as_str(), c))
     };
-    result.id = cell_of(&Role::Id).map(|(v, _)| v.trim().to_string());
+    result.id = row.cell(&sheet.columns, &Role::Id).map(str::to_string);
+    if let Some(e) = &row.error {
+        result.error = Some(e.clone());
+        return result;
+    }
     let command = match cell_of(&Role::Command) {
         None => {
             result.error = Some("command: empty (give flash, bubble, dew, duty or curve)".into());
@@ -285,7 +303,10 @@ fn run_row(lib: &Library, sheet: &Sheet, row: &sheet::Row) -> RowResult {
         Some((v, _)) => match Command::from_name(v) {
             Some(c) => c,
             None => {
-                result.error = Some(format!("command: '{}' is not one of flash, bubble, dew, duty, curve", v.trim()));
+                result.error = Some(format!(
+                    "command: '{}' is not one of flash, bubble, dew, duty, curve",
+                    v.trim()
+                ));
                 return result;
             }
         },
@@ -351,11 +372,31 @@ pub fn report(name: &str, results: &[RowResult]) -> String {
         let id = r.id.clone().unwrap_or_default();
         let cmd = r.command.clone().unwrap_or_else(|| "-".into());
         if r.error.is_some() {
-            t.row(vec![r.line.to_string(), id.clone(), cmd.clone(), "-".into(), "error".into(), "-".into(), "-".into(), "-".into(), "FAIL".into()]);
+            t.row(vec![
+                r.line.to_string(),
+                id.clone(),
+                cmd.clone(),
+                "-".into(),
+                "error".into(),
+                "-".into(),
+                "-".into(),
+                "-".into(),
+                "FAIL".into(),
+            ]);
             continue;
         }
         if r.comparisons.is_empty() {
-            t.row(vec![r.line.to_string(), id.clone(), cmd.clone(), "(no expected values)".into(), "ran".into(), "-".into(), "-".into(), "-".into(), "pass".into()]);
+            t.row(vec![
+                r.line.to_string(),
+                id.clone(),
+                cmd.clone(),
+                "(no expected values)".into(),
+                "ran".into(),
+                "-".into(),
+                "-".into(),
+                "-".into(),
+                "pass".into(),
+            ]);
         }
         for c in &r.comparisons {
             t.row(vec![
@@ -365,7 +406,9 @@ pub fn report(name: &str, results: &[RowResult]) -> String {
                 c.key.clone(),
                 c.computed.clone(),
                 c.expected.clone(),
-                c.deviation.map_or("-".into(), |d| format!("{}{}", if d >= 0.0 { "+" } else { "" }, num(d, 3))),
+                c.deviation.map_or("-".into(), |d| {
+                    format!("{}{}", if d >= 0.0 { "+" } else { "" }, num(d, 3))
+                }),
                 c.allowed.map_or("-".into(), |a| num(a, 3)),
                 if c.pass { "pass".into() } else { "FAIL".into() },
             ]);
@@ -414,7 +457,7 @@ pub fn to_json(name: &str, results: &[RowResult]) -> Value {
                 "error": r.error,
                 "checks": r.comparisons.iter().map(|c| json!({
                     "key": c.key,
-                    "computed": c.computed,
+                    "computed": c.computed_value,
                     "expected": c.expected,
                     "deviation": c.deviation,
                     "allowed": c.allowed,
@@ -503,7 +546,11 @@ pub fn junit(name: &str, results: &[RowResult]) -> String {
             out,
             "      <failure message=\"{}\" type=\"{}\">{}</failure>",
             xml_escape(&message),
-            if r.error.is_some() { "row-error" } else { "outside-tolerance" },
+            if r.error.is_some() {
+                "row-error"
+            } else {
+                "outside-tolerance"
+            },
             xml_escape(&lines.join("\n"))
         );
         out.push_str("    </testcase>\n");
@@ -544,6 +591,9 @@ mod tests {
 
     #[test]
     fn escaping() {
-        assert_eq!(xml_escape("a<b & \"c\" 'd'>\u{1}"), "a&lt;b &amp; &quot;c&quot; &apos;d&apos;&gt;\u{FFFD}");
+        assert_eq!(
+            xml_escape("a<b & \"c\" 'd'>\u{1}"),
+            "a&lt;b &amp; &quot;c&quot; &apos;d&apos;&gt;\u{FFFD}"
+        );
     }
 }

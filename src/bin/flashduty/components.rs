@@ -13,7 +13,11 @@ use std::fmt::Write;
 /// The list as text.
 pub fn list_text(lib: &Library) -> String {
     let mut out = String::new();
-    let _ = writeln!(out, "Component library: {} components ('flashduty components NAME' shows one with its sources)\n", lib.len());
+    let _ = writeln!(
+        out,
+        "Component library: {} components ('flashduty components NAME' shows one with its sources)\n",
+        lib.len()
+    );
     let mut t = Table::new(&[
         ("name", Align::Left),
         ("CAS", Align::Left),
@@ -67,9 +71,9 @@ fn range_json(r: ValidityRange) -> Value {
 
 fn range_text(r: ValidityRange, tc: f64) -> String {
     if r.max_k.is_finite() && r.min_k > 0.0 {
-        format!("valid {}–{} K", num(r.min_k, 6), num(r.max_k, 6))
+        format!("valid {}–{} K", exact(r.min_k), exact(r.max_k))
     } else {
-        format!("no stated range (up to Tc = {} K)", num(tc, 6))
+        format!("no stated range (up to Tc = {} K)", exact(tc))
     }
 }
 
@@ -79,7 +83,10 @@ fn cited(c: &Component, lib: &Library) -> BTreeMap<String, String> {
         .map(|(_, p)| {
             (
                 p.source.clone(),
-                lib.sources().get(&p.source).cloned().unwrap_or_else(|| "(not in the bibliography)".into()),
+                lib.sources()
+                    .get(&p.source)
+                    .cloned()
+                    .unwrap_or_else(|| "(not in the bibliography)".into()),
             )
         })
         .collect()
@@ -91,8 +98,14 @@ pub fn one_json(lib: &Library, name: &str) -> CliResult<Value> {
     let c = lib.get(name).map_err(|e| CliError::new(format!("components: {e}")))?;
     let mut validity = Map::new();
     validity.insert("vapour_pressure".into(), range_json(c.vapour_pressure().validity()));
-    validity.insert("liquid_heat_capacity".into(), range_json(c.liquid_heat_capacity().validity()));
-    validity.insert("vapour_heat_capacity".into(), range_json(c.vapour_heat_capacity().validity()));
+    validity.insert(
+        "liquid_heat_capacity".into(),
+        range_json(c.liquid_heat_capacity().validity()),
+    );
+    validity.insert(
+        "vapour_heat_capacity".into(),
+        range_json(c.vapour_heat_capacity().validity()),
+    );
     validity.insert("latent_heat".into(), range_json(c.latent_heat().validity()));
     Ok(json!({
         "component": c.to_json(),
@@ -101,8 +114,17 @@ pub fn one_json(lib: &Library, name: &str) -> CliResult<Value> {
     }))
 }
 
+/// A constant as written in the file: shortest form, exponent only for very small or large.
+fn exact(x: f64) -> String {
+    if x != 0.0 && (x.abs() < 1e-3 || x.abs() >= 1e7) {
+        format!("{x:e}")
+    } else {
+        format!("{x}")
+    }
+}
+
 fn f(v: &Value, key: &str) -> String {
-    v.get(key).and_then(Value::as_f64).map_or("-".into(), |x| num(x, 8))
+    v.get(key).and_then(Value::as_f64).map_or("-".into(), exact)
 }
 
 fn correlation_text(field: &str, v: &Value) -> String {
@@ -127,7 +149,12 @@ fn correlation_text(field: &str, v: &Value) -> String {
             let coefs: Vec<String> = v
                 .get("coefficients")
                 .and_then(Value::as_array)
-                .map(|a| a.iter().map(|x| x.as_f64().map_or("?".into(), |x| num(x, 8))).collect())
+                .map(|a| {
+                    a.iter()
+                        .zip(["a", "b", "c", "d", "e"])
+                        .map(|(x, n)| format!("{n} = {}", x.as_f64().map_or("?".into(), exact)))
+                        .collect()
+                })
                 .unwrap_or_default();
             format!("Cp = a + bT + cT² + dT³ + eT⁴ [J/(mol·K)]: {}", coefs.join(", "))
         }
@@ -144,7 +171,9 @@ fn correlation_text(field: &str, v: &Value) -> String {
             "Watson from {} J/mol at {} K, exponent {}",
             f(v, "value_J_per_mol"),
             f(v, "T_anchor_K"),
-            v.get("exponent").and_then(Value::as_f64).map_or("0.38".into(), |x| num(x, 4))
+            v.get("exponent")
+                .and_then(Value::as_f64)
+                .map_or("0.38".into(), |x| num(x, 4))
         ),
         ("latent_heat", "dippr106") => format!(
             "DIPPR-106: A = {} J/mol, B = {}, C = {}, D = {}, E = {}",
@@ -169,50 +198,78 @@ pub fn one_text(lib: &Library, name: &str) -> CliResult<String> {
         let _ = writeln!(out, "  also known as: {}", c.synonyms().join(", "));
     }
     let _ = writeln!(out);
-    let mut t = Table::new(&[
-        ("value", Align::Left),
-        ("", Align::Left),
-        ("range", Align::Left),
-        ("source", Align::Left),
-    ]);
     let ranges: BTreeMap<&str, String> = [
         ("vapour_pressure", range_text(c.vapour_pressure().validity(), tc)),
-        ("liquid_heat_capacity", range_text(c.liquid_heat_capacity().validity(), tc)),
-        ("vapour_heat_capacity", range_text(c.vapour_heat_capacity().validity(), tc)),
+        (
+            "liquid_heat_capacity",
+            range_text(c.liquid_heat_capacity().validity(), tc),
+        ),
+        (
+            "vapour_heat_capacity",
+            range_text(c.vapour_heat_capacity().validity(), tc),
+        ),
         ("latent_heat", range_text(c.latent_heat().validity(), tc)),
     ]
     .into_iter()
     .collect();
-    let mut notes = Vec::new();
-    for (field, p) in c.provenance() {
-        let entry = record.get(field.as_str()).cloned().unwrap_or(Value::Null);
-        let (label, value) = match field.as_str() {
-            "molar_mass_g_per_mol" => ("molar mass", format!("{} g/mol", num(c.molar_mass_g_per_mol(), 8))),
-            "critical_temperature_K" => ("critical temperature", format!("{} K", num(tc, 8))),
-            "critical_pressure_Pa" => ("critical pressure", format!("{} kPa", num(c.critical_pressure_pa() / 1e3, 8))),
-            "acentric_factor" => ("acentric factor", num(c.acentric_factor(), 6)),
-            "normal_boiling_point_K" => ("normal boiling point", format!("{} K", num(c.normal_boiling_point_k(), 8))),
-            "vapour_pressure" => ("vapour pressure", correlation_text(field, &entry)),
-            "liquid_heat_capacity" => ("liquid heat capacity", correlation_text(field, &entry)),
-            "vapour_heat_capacity" => ("ideal-gas heat capacity", correlation_text(field, &entry)),
-            "latent_heat" => ("latent heat", correlation_text(field, &entry)),
-            other => (other, entry.to_string()),
-        };
-        let mut source = format!("[{}]", p.source);
+    let source = |p: &flashduty::properties::Provenance| {
         if p.from_memory {
-            source.push_str(" from memory: check against the source");
+            format!("[{}] (from memory)", p.source)
+        } else {
+            format!("[{}]", p.source)
         }
+    };
+    let mut t = Table::new(&[
+        ("constant", Align::Left),
+        ("value", Align::Right),
+        ("source", Align::Left),
+    ]);
+    let mut correlations = Vec::new();
+    let mut notes = Vec::new();
+    let mut any_memory = false;
+    for (field, p) in c.provenance() {
+        any_memory |= p.from_memory;
+        let entry = record.get(field.as_str()).cloned().unwrap_or(Value::Null);
+        let scalar = match field.as_str() {
+            "molar_mass_g_per_mol" => Some(("molar mass", format!("{} g/mol", exact(c.molar_mass_g_per_mol())))),
+            "critical_temperature_K" => Some(("critical temperature", format!("{} K", exact(tc)))),
+            "critical_pressure_Pa" => Some((
+                "critical pressure",
+                format!("{} kPa", exact(c.critical_pressure_pa() / 1e3)),
+            )),
+            "acentric_factor" => Some(("acentric factor", exact(c.acentric_factor()))),
+            "normal_boiling_point_K" => Some((
+                "normal boiling point",
+                format!("{} K", exact(c.normal_boiling_point_k())),
+            )),
+            _ => None,
+        };
+        let label = match (&scalar, field.as_str()) {
+            (Some((l, _)), _) => *l,
+            (None, "vapour_pressure") => "vapour pressure",
+            (None, "liquid_heat_capacity") => "liquid heat capacity",
+            (None, "vapour_heat_capacity") => "ideal-gas heat capacity",
+            (None, "latent_heat") => "latent heat",
+            (None, other) => other,
+        };
         if let Some(n) = &p.note {
             notes.push(format!("{label}: {n}"));
         }
-        t.row(vec![
-            label.to_string(),
-            value,
-            ranges.get(field.as_str()).cloned().unwrap_or_default(),
-            source,
-        ]);
+        match scalar {
+            Some((l, v)) => t.row(vec![l.to_string(), v, source(p)]),
+            None => correlations.push(format!(
+                "  {label}: {}; {}\n      {}",
+                ranges.get(field.as_str()).cloned().unwrap_or_default(),
+                source(p),
+                correlation_text(field, &entry)
+            )),
+        }
     }
     out.push_str(&t.render(2));
+    let _ = writeln!(out, "\n  Correlations (T in K):");
+    for line in correlations {
+        let _ = writeln!(out, "{line}");
+    }
     if !notes.is_empty() {
         let _ = writeln!(out, "\n  Notes:");
         for n in notes {
@@ -222,6 +279,12 @@ pub fn one_text(lib: &Library, name: &str) -> CliResult<String> {
     let _ = writeln!(out, "\n  Sources cited:");
     for (k, v) in cited(c, lib) {
         let _ = writeln!(out, "    [{k}] {v}");
+    }
+    if any_memory {
+        let _ = writeln!(
+            out,
+            "  (from memory): the value was typed from memory and should be checked against the source."
+        );
     }
     let _ = writeln!(out);
     let _ = writeln!(out, "{CAUTION}");

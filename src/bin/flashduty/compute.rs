@@ -156,7 +156,9 @@ fn components(lib: &Library, names: &[String]) -> CliResult<Vec<Arc<Component>>>
 /// Builds the feed: the components, their mole fractions (or flows) and the total flow.
 pub fn feed(lib: &Library, case: &Case) -> CliResult<Feed> {
     let Some(names) = &case.components else {
-        bail!("components: missing (give the component names or CAS numbers, or z and K for a flash with given K-values)");
+        bail!(
+            "components: missing (give the component names or CAS numbers, or z and K for a flash with given K-values)"
+        );
     };
     let comps = components(lib, names)?;
     let n = comps.len();
@@ -215,7 +217,11 @@ fn which(state: &StateInput) -> String {
     if state.vapour_fraction.is_some() {
         given.push("vapour_fraction");
     }
-    if given.is_empty() { "nothing".to_string() } else { given.join(", ") }
+    if given.is_empty() {
+        "nothing".to_string()
+    } else {
+        given.join(", ")
+    }
 }
 
 /// The library's state for an inlet or outlet given by two of T, P and vapour fraction.
@@ -249,7 +255,11 @@ fn k_flash(case: &Case) -> CliResult<FlashOutcome> {
     };
     if let Some(names) = &case.components {
         if names.len() != z.len() {
-            bail!("components: {} names given for {} mole fractions in z", names.len(), z.len());
+            bail!(
+                "components: {} names given for {} mole fractions in z",
+                names.len(),
+                z.len()
+            );
         }
     }
     let flow = match case.flow {
@@ -310,9 +320,10 @@ fn flash_case(lib: &Library, case: &Case) -> CliResult<FlashOutcome> {
     }
     let feed = feed(lib, case)?;
     let (name, spec) = match (case.t, case.p, case.vapour_fraction) {
-        (Some(temperature), Some(pressure), None) => {
-            ("T and P given", FlashSpec::TemperaturePressure { temperature, pressure })
-        }
+        (Some(temperature), Some(pressure), None) => (
+            "T and P given",
+            FlashSpec::TemperaturePressure { temperature, pressure },
+        ),
         (Some(temperature), None, Some(vapour_fraction)) => (
             "T and vapour fraction given",
             FlashSpec::TemperatureVapourFraction {
@@ -390,7 +401,10 @@ fn duty_result(feed: &Feed, case: &Case) -> CliResult<(DutyResult, bool)> {
     match case.duty {
         Some(duty) => {
             let (None, Some(p), None) = (outlet.t, outlet.p, outlet.vapour_fraction) else {
-                bail!("outlet: with duty given, give outlet.P only (got {}); the outlet state is found", which(outlet));
+                bail!(
+                    "outlet: with duty given, give outlet.P only (got {}); the outlet state is found",
+                    which(outlet)
+                );
             };
             Ok((outlet_for_duty(stream, inlet, duty, p, opts)?, true))
         }
@@ -439,7 +453,11 @@ fn curve_case(lib: &Library, case: &Case, points: Option<usize>) -> CliResult<Cu
         },
     };
     let curve = heating_curve(stream, inlet, outlet, points, options(case))?;
-    if curve.points.iter().any(|p| !(p.duty_w.is_finite() && p.temperature_k.is_finite())) {
+    if curve
+        .points
+        .iter()
+        .any(|p| !(p.duty_w.is_finite() && p.temperature_k.is_finite()))
+    {
         bail!("curve: a point is not a finite number (is the flow absurdly large?)");
     }
     Ok(CurveOutcome {

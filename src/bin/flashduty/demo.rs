@@ -121,7 +121,12 @@ pub fn text(lib: &Library) -> CliResult<String> {
     }
     let _ = writeln!(out, "  total heat input: {}", power(total));
     if let Some(v) = vapour {
-        let _ = writeln!(out, "  vapour product: {} mol/s ({} kmol/h)", num(v, 5), num(v * 3.6, 5));
+        let _ = writeln!(
+            out,
+            "  vapour product: {} mol/s ({} kmol/h)",
+            num(v, 5),
+            num(v * 3.6, 5)
+        );
     }
     let _ = writeln!(out);
     let _ = writeln!(out, "{CAUTION}");

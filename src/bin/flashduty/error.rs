@@ -20,6 +20,7 @@ impl CliError {
     }
 
     /// The message.
+    #[cfg_attr(not(test), allow(dead_code))]
     pub fn message(&self) -> &str {
         &self.0
     }

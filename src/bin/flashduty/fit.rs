@@ -2,7 +2,7 @@
 //! (through `flashduty::fit`), prints the report, and builds a user component file from a
 //! component sheet.
 
-use crate::case::{is_toml_name, kind_of, number, pressure, show, suggest_key, temperature};
+use crate::case::{is_toml_name, kind_of, number, pressure, show, suggest_key, temperature, toml_value};
 use crate::compute::CAUTION;
 use crate::error::{CliError, CliResult, bail};
 use crate::text::{Align, Table, fixed, num};
@@ -39,7 +39,11 @@ pub enum Form {
 #[derive(Debug, Args)]
 pub struct FitArgs {
     /// The data points, CSV: a temperature column and a value column (see docs/CLI.md).
-    #[arg(value_name = "DATA.csv", required_unless_present = "component", conflicts_with = "component")]
+    #[arg(
+        value_name = "DATA.csv",
+        required_unless_present = "component",
+        conflicts_with = "component"
+    )]
     pub data: Option<PathBuf>,
 
     /// What the data measure.
@@ -125,7 +129,11 @@ impl Fitted {
             }
             Fitted::Extended(f) => (
                 "ln(P/Pa) = A + B/T + C ln T + D T^E".into(),
-                ["A", "B", "C", "D", "E"].iter().zip(f.constants).map(|(n, v)| (n.to_string(), v)).collect(),
+                ["A", "B", "C", "D", "E"]
+                    .iter()
+                    .zip(f.constants)
+                    .map(|(n, v)| (n.to_string(), v))
+                    .collect(),
             ),
             Fitted::Cp(f) => (
                 "Cp = a + bT + cT² + dT³ + eT⁴ [J/(mol·K)], T in K".into(),
@@ -312,7 +320,9 @@ const LATENT_KEYS: &[&str] = &["T", "value", "exponent"];
 fn keys(map: &Map<String, Value>, prefix: &str, known: &[&str]) -> CliResult<()> {
     for k in map.keys() {
         if !known.contains(&k.as_str()) {
-            let hint = suggest_key(k, known).map(|s| format!(" (did you mean '{prefix}{s}'?)")).unwrap_or_default();
+            let hint = suggest_key(k, known)
+                .map(|s| format!(" (did you mean '{prefix}{s}'?)"))
+                .unwrap_or_default();
             bail!("unknown key '{prefix}{k}'{hint}; known keys: {}", known.join(", "));
         }
     }
@@ -320,7 +330,8 @@ fn keys(map: &Map<String, Value>, prefix: &str, known: &[&str]) -> CliResult<()>
 }
 
 fn get<'a>(map: &'a Map<String, Value>, field: &str, key: &str) -> CliResult<&'a Value> {
-    map.get(key).ok_or_else(|| CliError::new(format!("{field}{key}: missing")))
+    map.get(key)
+        .ok_or_else(|| CliError::new(format!("{field}{key}: missing")))
 }
 
 fn text_of(field: &str, v: &Value) -> CliResult<String> {
@@ -384,7 +395,7 @@ fn component(sheet: &Path, args: &FitArgs, units: AntoineForm, json_out: bool) -
     let text = std::fs::read_to_string(sheet)
         .map_err(|e| CliError::new(format!("component sheet '{name}': cannot read it ({e})")))?;
     let value: Value = if is_toml_name(&name) {
-        toml::from_str(&text).map_err(|e| CliError::new(format!("{name}: malformed TOML: {e}")))?
+        toml_value(&name, &text)?
     } else {
         serde_json::from_str(&text).map_err(|e| CliError::new(format!("{name}: malformed JSON: {e}")))?
     };
@@ -427,9 +438,15 @@ fn build(value: &Value, base: &Path, args: &FitArgs, units: AntoineForm, json_ou
     let form = match vp.get("form").map(|f| f.as_str().map(str::trim)) {
         None | Some(Some("antoine")) => Form::Antoine,
         Some(Some("extended")) => Form::Extended,
-        Some(_) => bail!("vapour_pressure.form: {} is not 'antoine' or 'extended'", show(&vp["form"])),
+        Some(_) => bail!(
+            "vapour_pressure.form: {} is not 'antoine' or 'extended'",
+            show(&vp["form"])
+        ),
     };
-    let exponent = vp.get("exponent").map(|e| number("vapour_pressure.exponent", e)).transpose()?;
+    let exponent = vp
+        .get("exponent")
+        .map(|e| number("vapour_pressure.exponent", e))
+        .transpose()?;
     let path = data_path(base, "vapour_pressure.data", get(vp, "vapour_pressure.", "data")?)?;
     let fitted = fit_vapour_pressure(&path, form, exponent)?;
     b = match &fitted {
@@ -446,7 +463,11 @@ fn build(value: &Value, base: &Path, args: &FitArgs, units: AntoineForm, json_ou
         match heat_capacity(base, field, get(m, "", field)?)? {
             Ok(f) => {
                 if let Fitted::Cp(cp) = &f {
-                    b = if field == "liquid_heat_capacity" { b.liquid_cp_fit(cp) } else { b.vapour_cp_fit(cp) };
+                    b = if field == "liquid_heat_capacity" {
+                        b.liquid_cp_fit(cp)
+                    } else {
+                        b.vapour_cp_fit(cp)
+                    };
                 }
                 fits.push((label, DataKind::HeatCapacity, f));
             }
@@ -465,7 +486,10 @@ fn build(value: &Value, base: &Path, args: &FitArgs, units: AntoineForm, json_ou
         Value::String(s) => MolarEnthalpy::parse("latent_heat.value", s)?,
         other => MolarEnthalpy::new("latent_heat.value", number("latent_heat.value", other)?)?,
     };
-    let exponent = lh.get("exponent").map(|e| number("latent_heat.exponent", e)).transpose()?;
+    let exponent = lh
+        .get("exponent")
+        .map(|e| number("latent_heat.exponent", e))
+        .transpose()?;
     b = b.latent_heat_watson(t, dh.joule_per_mol(), exponent);
 
     let user = b.build()?;
@@ -490,12 +514,22 @@ fn build(value: &Value, base: &Path, args: &FitArgs, units: AntoineForm, json_ou
     }
     let c = user.component();
     let mut out = String::new();
-    let _ = writeln!(out, "User component '{}' ({}, CAS {})\n", c.name(), c.formula(), c.cas());
+    let _ = writeln!(
+        out,
+        "User component '{}' ({}, CAS {})\n",
+        c.name(),
+        c.formula(),
+        c.cas()
+    );
     for (label, kind, f) in &fits {
         f.text(&mut out, &format!("Fit of the {label}"), *kind, units);
         let _ = writeln!(out);
     }
-    let _ = writeln!(out, "Consistency checks at the normal boiling point {} K:", num(checks.normal_boiling_point_k, 6));
+    let _ = writeln!(
+        out,
+        "Consistency checks at the normal boiling point {} K:",
+        num(checks.normal_boiling_point_k, 6)
+    );
     let _ = writeln!(
         out,
         "  vapour pressure there {} kPa, {} % from 101.325 kPa (tolerance {} %): {}",
@@ -523,7 +557,12 @@ fn build(value: &Value, base: &Path, args: &FitArgs, units: AntoineForm, json_ou
     }
     match &args.write {
         Some(p) => {
-            let _ = writeln!(out, "\nComponent file written to {} (use it with --components {}).", p.display(), p.display());
+            let _ = writeln!(
+                out,
+                "\nComponent file written to {} (use it with --components {}).",
+                p.display(),
+                p.display()
+            );
         }
         None => {
             let _ = writeln!(out, "\nGive --write FILE to save the component file.");

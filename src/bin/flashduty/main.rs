@@ -9,6 +9,8 @@ mod compute;
 mod demo;
 mod error;
 mod fit;
+#[cfg(test)]
+mod fuzz_tests;
 mod plot;
 mod sheet;
 mod text;
@@ -175,7 +177,9 @@ fn case_command(cli: &Cli, command: Command, args: &CaseArgs) -> CliResult<u8> {
         return Ok(0);
     }
     let Some(arg) = &args.case else {
-        return Err(CliError::new("CASE: give a case file, '-' for standard input, or --batch FILE.csv"));
+        return Err(CliError::new(
+            "CASE: give a case file, '-' for standard input, or --batch FILE.csv",
+        ));
     };
     let (name, case) = case::load(arg, command)?;
     let outcome = compute::run(&lib, command, &case, None).map_err(|e| e.context(&name))?;
@@ -196,7 +200,8 @@ fn run(cli: &Cli) -> CliResult<u8> {
         Cmd::Curve { case, points, svg, csv } => {
             let lib = compute::library(&cli.component_files)?;
             let (name, c) = case::load(case, Command::Curve)?;
-            let outcome = compute::run(&lib, Command::Curve, &c, points.map(|p| p as usize)).map_err(|e| e.context(&name))?;
+            let outcome =
+                compute::run(&lib, Command::Curve, &c, points.map(|p| p as usize)).map_err(|e| e.context(&name))?;
             if let compute::Outcome::Curve(curve) = &outcome {
                 if let Some(p) = svg {
                     plot::write_svg(p, curve)?;

@@ -25,8 +25,12 @@ pub fn svg_text(c: &CurveOutcome) -> CliResult<String> {
     if pts.is_empty() {
         return Err(CliError::new("--svg: the curve has no points"));
     }
-    let (mut x0, mut x1) = pts.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), p| (a.min(p.0), b.max(p.0)));
-    let (mut y0, mut y1) = pts.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), p| (a.min(p.1), b.max(p.1)));
+    let (mut x0, mut x1) = pts
+        .iter()
+        .fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), p| (a.min(p.0), b.max(p.0)));
+    let (mut y0, mut y1) = pts
+        .iter()
+        .fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), p| (a.min(p.1), b.max(p.1)));
     if !(x0.is_finite() && x1.is_finite() && y0.is_finite() && y1.is_finite()) {
         return Err(CliError::new("--svg: the curve has points that are not finite"));
     }
@@ -68,8 +72,12 @@ pub fn svg_text(c: &CurveOutcome) -> CliResult<String> {
         root.fill(&WHITE).map_err(draw_error)?;
         let (top, rest) = root.split_vertically(70);
         let (plot_area, foot) = rest.split_vertically(HEIGHT - 70 - 40);
-        top.draw(&Text::new(title, (60, 14), ("sans-serif", 26).into_font().color(&BLACK)))
-            .map_err(draw_error)?;
+        top.draw(&Text::new(
+            title,
+            (60, 14),
+            ("sans-serif", 26).into_font().color(&BLACK),
+        ))
+        .map_err(draw_error)?;
         top.draw(&Text::new(
             format!("feed mole fractions: {mix}"),
             (60, 46),
@@ -111,7 +119,11 @@ pub fn svg_text(c: &CurveOutcome) -> CliResult<String> {
 
         // The bubble and dew temperatures as faint horizontal lines across the chart.
         let grey = RGBColor(150, 150, 150);
-        let mut marks = vec![("bubble point", curve.bubble_temperature_k - 273.15, RGBColor(200, 60, 20))];
+        let mut marks = vec![(
+            "bubble point",
+            curve.bubble_temperature_k - 273.15,
+            RGBColor(200, 60, 20),
+        )];
         if let Some(d) = curve.dew_temperature_k {
             marks.push(("dew point", d - 273.15, RGBColor(20, 120, 60)));
         }
@@ -140,7 +152,10 @@ pub fn svg_text(c: &CurveOutcome) -> CliResult<String> {
             let at = curve
                 .points
                 .iter()
-                .find(|p| (p.breakpoint == "bubble" && *name == "bubble point") || (p.breakpoint == "dew" && *name == "dew point"))
+                .find(|p| {
+                    (p.breakpoint == "bubble" && *name == "bubble point")
+                        || (p.breakpoint == "dew" && *name == "dew point")
+                })
                 .map(|p| p.duty_w / 1e3);
             let label = format!("{name} {} °C", fixed(*t, 1));
             let style = ("sans-serif", 15).into_font().color(color);
@@ -151,7 +166,11 @@ pub fn svg_text(c: &CurveOutcome) -> CliResult<String> {
                     // the bubble to the dew point), heating or cooling, and the two labels
                     // never overlap on a narrow-boiling feed.
                     let width = 8 * label.chars().count() as i32;
-                    let offset = if *name == "bubble point" { (12, 8) } else { (-width - 12, -26) };
+                    let offset = if *name == "bubble point" {
+                        (12, 8)
+                    } else {
+                        (-width - 12, -26)
+                    };
                     chart
                         .draw_series(std::iter::once(
                             EmptyElement::at((x, *t))
@@ -161,12 +180,11 @@ pub fn svg_text(c: &CurveOutcome) -> CliResult<String> {
                         .map_err(draw_error)?;
                 }
                 None => {
+                    // Just below the faint line, at the left (text hangs down from its anchor).
                     chart
-                        .draw_series(std::iter::once(Text::new(
-                            format!("{label} (not crossed)"),
-                            (x0 + 0.01 * (x1 - x0), *t + 0.01 * (y1 - y0)),
-                            style,
-                        )))
+                        .draw_series(std::iter::once(
+                            EmptyElement::at((x0, *t)) + Text::new(format!("{label} (not crossed)"), (8, 4), style),
+                        ))
                         .map_err(draw_error)?;
                 }
             }
@@ -179,7 +197,11 @@ pub fn svg_text(c: &CurveOutcome) -> CliResult<String> {
 /// A tick label with as many decimals as the axis span needs (the same for every tick).
 fn tick(v: f64, span: f64) -> String {
     let step = (span / 10.0).abs();
-    let decimals = if step > 0.0 && step.is_finite() { (-step.log10().floor()).clamp(0.0, 6.0) as usize } else { 0 };
+    let decimals = if step > 0.0 && step.is_finite() {
+        (-step.log10().floor()).clamp(0.0, 6.0) as usize
+    } else {
+        0
+    };
     fixed(v, decimals)
 }
 

@@ -48,8 +48,21 @@ pub struct Column {
 pub struct Row {
     /// The line of the file it starts on (the header is usually line 1).
     pub line: u64,
-    /// Its cells, or why the row could not be read.
-    pub cells: Result<Vec<String>, String>,
+    /// Its cells (as many as could be read).
+    pub cells: Vec<String>,
+    /// Why the row cannot be used, if it cannot (e.g. a wrong number of cells).
+    pub error: Option<String>,
+}
+
+impl Row {
+    /// The non-empty cell of the first column with `role`, if the row has it.
+    pub fn cell<'a>(&'a self, columns: &[Column], role: &Role) -> Option<&'a str> {
+        columns
+            .iter()
+            .zip(&self.cells)
+            .find(|(c, v)| &c.role == role && !v.trim().is_empty())
+            .map(|(_, v)| v.trim())
+    }
 }
 
 /// A read spreadsheet.
@@ -96,8 +109,13 @@ fn field_role(name: &str, header: &str) -> CliResult<Role> {
             bail!("column '{header}': give '{top}.<key>' with one of {}", known.join(", "));
         }
         if !known.contains(&parts[1].as_str()) {
-            let hint = suggest_key(&parts[1], known).map(|k| format!(" (did you mean '{top}.{k}'?)")).unwrap_or_default();
-            bail!("column '{header}': unknown key '{name}'{hint}; known keys of '{top}': {}", known.join(", "));
+            let hint = suggest_key(&parts[1], known)
+                .map(|k| format!(" (did you mean '{top}.{k}'?)"))
+                .unwrap_or_default();
+            bail!(
+                "column '{header}': unknown key '{name}'{hint}; known keys of '{top}': {}",
+                known.join(", ")
+            );
         }
         Ok(())
     };
@@ -112,7 +130,9 @@ fn field_role(name: &str, header: &str) -> CliResult<Role> {
         _ => {
             let mut known: Vec<&str> = TOP_KEYS.to_vec();
             known.extend(["command", "id"]);
-            let hint = suggest_key(top, &known).map(|k| format!(" (did you mean '{k}'?)")).unwrap_or_default();
+            let hint = suggest_key(top, &known)
+                .map(|k| format!(" (did you mean '{k}'?)"))
+                .unwrap_or_default();
             bail!(
                 "column '{header}': unknown case field '{name}'{hint}; expected case keys (dotted for nested ones), command, id, expect.<key>, tol.<key> or rtol.<key>"
             );
@@ -176,7 +196,9 @@ pub fn read(name: &str, bytes: &[u8]) -> CliResult<Sheet> {
     let mut records = reader.byte_records();
     let header = loop {
         match records.next() {
-            None => bail!("{name}: no header line (expected column names such as 'command,components,z,T [degC],P [bar]')"),
+            None => {
+                bail!("{name}: no header line (expected column names such as 'command,components,z,T [degC],P [bar]')")
+            }
             Some(Err(e)) => bail!("{name}: cannot read the header: {e}"),
             Some(Ok(r)) if r.iter().all(|c| c.is_empty()) => continue,
             Some(Ok(r)) => break r,
@@ -184,7 +206,8 @@ pub fn read(name: &str, bytes: &[u8]) -> CliResult<Sheet> {
     };
     let mut columns: Vec<Column> = Vec::with_capacity(header.len());
     for cell in header.iter() {
-        let text = std::str::from_utf8(cell).map_err(|_| CliError::new(format!("{name}: the header is not UTF-8 text")))?;
+        let text =
+            std::str::from_utf8(cell).map_err(|_| CliError::new(format!("{name}: the header is not UTF-8 text")))?;
         let c = column(text).map_err(|e| e.context(name))?;
         if let Some(prev) = columns.iter().find(|p| p.name == c.name) {
             bail!("{name}: column '{}' repeats column '{}'", c.header, prev.header);
@@ -199,7 +222,8 @@ pub fn read(name: &str, bytes: &[u8]) -> CliResult<Sheet> {
                 let line = e.position().map_or(0, csv::Position::line);
                 rows.push(Row {
                     line,
-                    cells: Err(format!("cannot read the row: {e}")),
+                    cells: Vec::new(),
+                    error: Some(format!("cannot read the row: {e}")),
                 });
                 continue;
             }
@@ -208,17 +232,28 @@ pub fn read(name: &str, bytes: &[u8]) -> CliResult<Sheet> {
         if rec.iter().all(|c| c.is_empty()) {
             continue;
         }
-        let cells = if rec.len() != columns.len() {
-            Err(format!("{} cells, but the header has {} columns", rec.len(), columns.len()))
-        } else {
-            rec.iter()
-                .enumerate()
-                .map(|(i, c)| {
-                    String::from_utf8(c.to_vec()).map_err(|_| format!("column '{}': the cell is not UTF-8 text", columns[i].header))
-                })
-                .collect::<Result<Vec<_>, _>>()
-        };
-        rows.push(Row { line, cells });
+        let mut error = None;
+        let mut cells = Vec::with_capacity(rec.len());
+        for (i, c) in rec.iter().enumerate() {
+            match String::from_utf8(c.to_vec()) {
+                Ok(s) => cells.push(s),
+                Err(e) => {
+                    let column = columns
+                        .get(i)
+                        .map_or_else(|| format!("#{}", i + 1), |c| c.header.clone());
+                    error.get_or_insert(format!("column '{column}': the cell is not UTF-8 text"));
+                    cells.push(String::from_utf8_lossy(e.as_bytes()).into_owned());
+                }
+            }
+        }
+        if rec.len() != columns.len() {
+            error = Some(format!(
+                "{} cells, but the header has {} columns",
+                rec.len(),
+                columns.len()
+            ));
+        }
+        rows.push(Row { line, cells, error });
     }
     Ok(Sheet { columns, rows })
 }
@@ -259,7 +294,10 @@ pub fn case_value(columns: &[Column], cells: &[String]) -> CliResult<Value> {
             let mut items = Vec::new();
             for (i, part) in cell.split(';').enumerate() {
                 if part.trim().is_empty() {
-                    bail!("{}[{i}]: empty list item in '{cell}' (separate items with ';')", col.name);
+                    bail!(
+                        "{}[{i}]: empty list item in '{cell}' (separate items with ';')",
+                        col.name
+                    );
                 }
                 items.push(item(part, col.unit.as_deref(), as_text));
             }
@@ -272,7 +310,10 @@ pub fn case_value(columns: &[Column], cells: &[String]) -> CliResult<Value> {
             let entry = map.entry(seg.clone()).or_insert_with(|| Value::Object(Map::new()));
             map = match entry {
                 Value::Object(m) => m,
-                _ => bail!("column '{}': '{seg}' is given both as a value and as an object", col.header),
+                _ => bail!(
+                    "column '{}': '{seg}' is given both as a value and as an object",
+                    col.header
+                ),
             };
         }
         map.insert(last.to_string(), value);
@@ -287,22 +328,28 @@ mod tests {
 
     #[test]
     fn headers() {
-        assert_eq!(split_header(" T [degC] ").unwrap(), ("T".to_string(), Some("degC".to_string())));
+        assert_eq!(
+            split_header(" T [degC] ").unwrap(),
+            ("T".to_string(), Some("degC".to_string()))
+        );
         assert_eq!(split_header("z").unwrap(), ("z".to_string(), None));
         assert!(split_header("T [degC").is_err());
         assert!(column("inlet.Temp").unwrap_err().message().contains("inlet.T"));
         assert!(column("Temp").unwrap_err().message().contains("'T'"));
-        assert_eq!(column("expect.x.benzene").unwrap().role, Role::Expect("x.benzene".into()));
+        assert_eq!(
+            column("expect.x.benzene").unwrap().role,
+            Role::Expect("x.benzene".into())
+        );
     }
 
     #[test]
     fn rows_become_cases() {
-        let text = "# invented\ncommand,components,z,T [degC],inlet.P [bar],note\nflash,benzene;toluene,0.5;0.5,80,1,12\n";
+        let text =
+            "# invented\ncommand,components,z,T [degC],inlet.P [bar],note\nflash,benzene;toluene,0.5;0.5,80,1,12\n";
         let sheet = read("t.csv", text.as_bytes()).unwrap();
         assert_eq!(sheet.rows.len(), 1);
         assert_eq!(sheet.rows[0].line, 3);
-        let cells = sheet.rows[0].cells.clone().unwrap();
-        let v = case_value(&sheet.columns, &cells).unwrap();
+        let v = case_value(&sheet.columns, &sheet.rows[0].cells).unwrap();
         assert_eq!(
             v,
             json!({"components": ["benzene", "toluene"], "z": [0.5, 0.5], "T": "80 degC",
@@ -315,6 +362,6 @@ mod tests {
         let text = "command,z\nflash,1\nflash,1,2\n";
         let sheet = read("t.csv", text.as_bytes()).unwrap();
         assert_eq!(sheet.rows.len(), 2);
-        assert!(sheet.rows[1].cells.is_err());
+        assert!(sheet.rows[1].error.is_some());
     }
 }

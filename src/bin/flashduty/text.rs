@@ -1,7 +1,7 @@
 //! Human-readable reports: tidy tables with units, the warnings, and the caution line.
 
-use crate::compute::{CAUTION, CurveOutcome, DutyOutcome, FlashOutcome, Outcome, State};
 use crate::case::Command;
+use crate::compute::{CAUTION, CurveOutcome, DutyOutcome, FlashOutcome, Outcome, State};
 use flashduty::rachford_rice::Phase;
 use flashduty::warnings::Warning;
 use std::fmt::Write;
@@ -50,13 +50,12 @@ impl Table {
         let pad = " ".repeat(indent);
         let line = |cells: &[String]| -> String {
             let mut s = pad.clone();
-            for i in 0..n {
+            for (i, (&w, align)) in width.iter().zip(&self.align).enumerate() {
                 let c = cells.get(i).map_or("", String::as_str);
-                let w = width[i];
                 if i > 0 {
                     s.push_str("  ");
                 }
-                match self.align[i] {
+                match align {
                     Align::Left => {
                         let _ = write!(s, "{c:<w$}");
                     }
@@ -157,8 +156,16 @@ fn phase_word(p: Phase) -> &'static str {
 
 /// The composition table of a state: z, x, y, K per component.
 pub fn composition(out: &mut String, names: Option<&[String]>, z: &[f64], s: &State, indent: usize) {
-    let x_head = if s.phase == Phase::Vapour && s.x.is_some() { "x (incipient)" } else { "x liquid" };
-    let y_head = if s.phase == Phase::Liquid && s.y.is_some() { "y (incipient)" } else { "y vapour" };
+    let x_head = if s.phase == Phase::Vapour && s.x.is_some() {
+        "x (incipient)"
+    } else {
+        "x liquid"
+    };
+    let y_head = if s.phase == Phase::Liquid && s.y.is_some() {
+        "y (incipient)"
+    } else {
+        "y vapour"
+    };
     let mut t = Table::new(&[
         ("component", Align::Left),
         ("z feed", Align::Right),
@@ -166,15 +173,19 @@ pub fn composition(out: &mut String, names: Option<&[String]>, z: &[f64], s: &St
         (y_head, Align::Right),
         ("K", Align::Right),
     ]);
-    for i in 0..z.len() {
+    for (i, zi) in z.iter().enumerate() {
         let name = names
             .and_then(|n| n.get(i))
             .cloned()
             .unwrap_or_else(|| format!("component {}", i + 1));
-        let cell = |v: &Option<Vec<f64>>| v.as_ref().and_then(|v| v.get(i)).map_or("-".to_string(), |x| fixed(*x, 6));
+        let cell = |v: &Option<Vec<f64>>| {
+            v.as_ref()
+                .and_then(|v| v.get(i))
+                .map_or("-".to_string(), |x| fixed(*x, 6))
+        };
         t.row(vec![
             name,
-            fixed(z[i], 6),
+            fixed(*zi, 6),
             cell(&s.x),
             cell(&s.y),
             s.k.get(i).map_or("-".to_string(), |k| num(*k, 6)),
@@ -239,9 +250,22 @@ fn flash_text(out: &mut String, f: &FlashOutcome) {
 pub fn duty_body(out: &mut String, d: &DutyOutcome) {
     let r = &d.result;
     let names = d.feed.names.as_deref();
-    let how = if d.duty_given { "given; outlet found" } else { "from the inlet and outlet states" };
-    let sense = if r.duty_w >= 0.0 { "heat into the stream" } else { "heat removed from the stream" };
-    let _ = writeln!(out, "Duty: {} = {} W ({sense}; {how})", power(r.duty_w), num(r.duty_w, 8));
+    let how = if d.duty_given {
+        "given; outlet found"
+    } else {
+        "from the inlet and outlet states"
+    };
+    let sense = if r.duty_w >= 0.0 {
+        "heat into the stream"
+    } else {
+        "heat removed from the stream"
+    };
+    let _ = writeln!(
+        out,
+        "Duty: {} = {} W ({sense}; {how})",
+        power(r.duty_w),
+        num(r.duty_w, 8)
+    );
     let _ = writeln!(
         out,
         "  stream flow {} mol/s ({} kmol/h)",
@@ -285,7 +309,10 @@ pub fn duty_body(out: &mut String, d: &DutyOutcome) {
         let _ = writeln!(out, "\n  {label} composition:");
         composition(out, names, &d.feed.z, &State::from(f), 4);
     }
-    let _ = writeln!(out, "\n  Enthalpy table (J/mol relative to the reference state; W = mol/s × J/mol):");
+    let _ = writeln!(
+        out,
+        "\n  Enthalpy table (J/mol relative to the reference state; W = mol/s × J/mol):"
+    );
     let mut t = Table::new(&[
         ("state", Align::Left),
         ("component", Align::Left),
@@ -338,7 +365,11 @@ pub fn duty_body(out: &mut String, d: &DutyOutcome) {
 
 fn curve_text(out: &mut String, c: &CurveOutcome) {
     let cv = &c.curve;
-    let kind = if cv.duty_w >= 0.0 { "Heating curve" } else { "Cooling curve" };
+    let kind = if cv.duty_w >= 0.0 {
+        "Heating curve"
+    } else {
+        "Cooling curve"
+    };
     let _ = writeln!(out, "{kind} at P = {}", pres(cv.pressure_pa));
     if let Some(names) = &c.feed.names {
         let parts: Vec<String> = names
@@ -358,7 +389,10 @@ fn curve_text(out: &mut String, c: &CurveOutcome) {
         }
     }
     let _ = writeln!(out, "  total duty   {}", power(cv.duty_w));
-    if c.inlet.p_pa.is_some_and(|p| (p - cv.pressure_pa).abs() > 1e-9 * cv.pressure_pa) {
+    if c.inlet
+        .p_pa
+        .is_some_and(|p| (p - cv.pressure_pa).abs() > 1e-9 * cv.pressure_pa)
+    {
         let _ = writeln!(
             out,
             "  the inlet ({}) is first let down to the curve pressure without heat, so the curve starts at that state",
@@ -431,6 +465,6 @@ mod tests {
         let mut t = Table::new(&[("a", Align::Left), ("bb", Align::Right)]);
         t.row(vec!["xyz".into(), "1".into()]);
         let s = t.render(0);
-        assert_eq!(s, "a     bb\n-------\nxyz    1\n");
+        assert_eq!(s, "a    bb\n-------\nxyz   1\n");
     }
 }
