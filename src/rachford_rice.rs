@@ -559,15 +559,23 @@ impl<'a> Oriented<'a> {
         (lo, hi)
     }
 
-    #[inline]
     /// G(s), G'(s) and Σ|terms of G|, the scale of the round-off in G.
+    #[inline]
     fn g_and_slope(&self, s: f64) -> (f64, f64, f64) {
+        // One loop per orientation, so the hot loop carries no branch.
+        match self.orientation {
+            Orientation::Liquid => self.g_and_slope_in::<true>(s),
+            Orientation::Vapour => self.g_and_slope_in::<false>(s),
+        }
+    }
+
+    #[inline]
+    fn g_and_slope_in<const LIQUID: bool>(&self, s: f64) -> (f64, f64, f64) {
         let (mut g, mut dg, mut scale) = (0.0, 0.0, 0.0);
-        for i in 0..self.z.len() {
-            let (p, a) = self.coefficients(i);
-            let zi = self.z[i] * self.inv_sum;
+        for (&z, &k) in self.z.iter().zip(self.k) {
+            let (p, a) = if LIQUID { (1.0, k - 1.0) } else { (k, 1.0 - k) };
             let r = a / (p + s * a);
-            let term = zi * r;
+            let term = z * self.inv_sum * r;
             g += term;
             dg -= term * r;
             scale += term.abs();
@@ -576,13 +584,13 @@ impl<'a> Oriented<'a> {
     }
 
     fn write(&self, s: f64, x: &mut [f64], y: &mut [f64]) {
-        for i in 0..self.z.len() {
+        for (i, (xi, yi)) in x.iter_mut().zip(y.iter_mut()).enumerate() {
             let (p, a) = self.coefficients(i);
             let d = p + s * a;
             let zi = self.z[i] * self.inv_sum;
             // d > 0 inside the window; a zero-feed component has x = y = 0.
-            x[i] = if zi == 0.0 { 0.0 } else { zi / d };
-            y[i] = self.k[i] * x[i];
+            *xi = if zi == 0.0 { 0.0 } else { zi / d };
+            *yi = self.k[i] * *xi;
         }
     }
 
