@@ -18,7 +18,15 @@ use std::hint::black_box;
 use std::time::Duration;
 
 const NAMES: [&str; 10] = [
-    "propane", "n-butane", "isopentane", "n-pentane", "n-hexane", "benzene", "n-heptane", "toluene", "n-octane",
+    "propane",
+    "n-butane",
+    "isopentane",
+    "n-pentane",
+    "n-hexane",
+    "benzene",
+    "n-heptane",
+    "toluene",
+    "n-octane",
     "o-xylene",
 ];
 const Z: [f64; 10] = [0.05, 0.08, 0.07, 0.1, 0.15, 0.1, 0.15, 0.12, 0.1, 0.08];
@@ -28,7 +36,8 @@ fn bench(c: &mut Criterion) {
     let p = Pressure::new("P", 3e5).expect("pressure");
     let t = Temperature::new("T", 380.0).expect("temperature");
     let mut g = c.benchmark_group("flash n=10");
-    g.measurement_time(Duration::from_secs(2)).warm_up_time(Duration::from_millis(500));
+    g.measurement_time(Duration::from_secs(2))
+        .warm_up_time(Duration::from_millis(500));
 
     let mut kv = KValues::new(10);
     model.k_values(380.0, 3e5, &[], &[], &mut kv);
@@ -37,7 +46,16 @@ fn bench(c: &mut Criterion) {
         b.iter(|| solve_into(black_box(&Z), black_box(&kv.k), Options::default(), &mut x, &mut y))
     });
     g.bench_function("T-P flash (Raoult, Antoine)", |b| {
-        b.iter(|| flash(&model, black_box(&Z), FlashSpec::TemperaturePressure { temperature: t, pressure: p }))
+        b.iter(|| {
+            flash(
+                &model,
+                black_box(&Z),
+                FlashSpec::TemperaturePressure {
+                    temperature: t,
+                    pressure: p,
+                },
+            )
+        })
     });
     g.bench_function("bubble temperature", |b| {
         b.iter(|| flash(&model, black_box(&Z), FlashSpec::BubbleTemperature { pressure: p }))
@@ -48,7 +66,11 @@ fn bench(c: &mut Criterion) {
             let (mut lo, mut hi) = (150.0f64, 600.0f64);
             while hi - lo > 1e-13 * hi {
                 let mid = 0.5 * (lo + hi);
-                let s: f64 = comps.iter().zip(&Z).map(|(c, z)| z * c.vapour_pressure().psat_pa(mid)).sum();
+                let s: f64 = comps
+                    .iter()
+                    .zip(&Z)
+                    .map(|(c, z)| z * c.vapour_pressure().psat_pa(mid))
+                    .sum();
                 if s > 3e5 { hi = mid } else { lo = mid }
             }
             black_box(lo)
@@ -57,22 +79,47 @@ fn bench(c: &mut Criterion) {
     g.finish();
 
     let stream = Stream::from_names(&NAMES, &Z, MolarFlow::new("flow", 10.0).expect("flow")).expect("stream");
-    let inlet = StreamState::TemperaturePressure { temperature: Temperature::new("T", 300.0).expect("T"), pressure: p };
-    let outlet = StreamState::TemperaturePressure { temperature: t, pressure: p };
+    let inlet = StreamState::TemperaturePressure {
+        temperature: Temperature::new("T", 300.0).expect("T"),
+        pressure: p,
+    };
+    let outlet = StreamState::TemperaturePressure {
+        temperature: t,
+        pressure: p,
+    };
     let o = DutyOptions::default();
     let duty = heater_duty(&stream, inlet, outlet, o).expect("duty").duty_w;
     let mut g = c.benchmark_group("duty n=10");
-    g.measurement_time(Duration::from_secs(2)).warm_up_time(Duration::from_millis(500));
+    g.measurement_time(Duration::from_secs(2))
+        .warm_up_time(Duration::from_millis(500));
     g.bench_function("baseline: two T-P flashes", |b| {
         b.iter(|| {
-            let a = flash(&model, &Z, FlashSpec::TemperaturePressure { temperature: Temperature::new("T", 300.0).expect("T"), pressure: p });
-            let b2 = flash(&model, &Z, FlashSpec::TemperaturePressure { temperature: t, pressure: p });
+            let a = flash(
+                &model,
+                &Z,
+                FlashSpec::TemperaturePressure {
+                    temperature: Temperature::new("T", 300.0).expect("T"),
+                    pressure: p,
+                },
+            );
+            let b2 = flash(
+                &model,
+                &Z,
+                FlashSpec::TemperaturePressure {
+                    temperature: t,
+                    pressure: p,
+                },
+            );
             black_box((a, b2))
         })
     });
-    g.bench_function("heater duty (T-P to T-P)", |b| b.iter(|| heater_duty(&stream, black_box(inlet), outlet, o)));
+    g.bench_function("heater duty (T-P to T-P)", |b| {
+        b.iter(|| heater_duty(&stream, black_box(inlet), outlet, o))
+    });
     let q = Power::new("duty", duty).expect("duty");
-    g.bench_function("duty-specified flash", |b| b.iter(|| outlet_for_duty(&stream, black_box(inlet), q, p, o)));
+    g.bench_function("duty-specified flash", |b| {
+        b.iter(|| outlet_for_duty(&stream, black_box(inlet), q, p, o))
+    });
     g.finish();
 }
 

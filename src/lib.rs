@@ -21,3 +21,8 @@ pub mod rachford_rice;
 mod solve;
 pub mod units;
 pub mod warnings;
+
+/// The README's code examples, compiled and run as doc tests.
+#[doc = include_str!("../README.md")]
+#[cfg(doctest)]
+pub struct ReadmeDoctests;

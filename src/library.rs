@@ -231,7 +231,11 @@ impl Library {
             .map(|(known, &i)| {
                 let d = edit_distance(&k, known);
                 // A known name that starts with or contains what was typed is a good hint.
-                let d = if !k.is_empty() && known.contains(&k) { d.min(1) } else { d };
+                let d = if !k.is_empty() && known.contains(&k) {
+                    d.min(1)
+                } else {
+                    d
+                };
                 (d, self.components[i].name())
             })
             .collect();

@@ -209,10 +209,18 @@ pub fn validate(z: &[f64], k: &[f64]) -> Result<f64, RachfordRiceError> {
     let mut sum = 0.0;
     for (index, (&zi, &ki)) in z.iter().zip(k).enumerate() {
         if !zi.is_finite() {
-            return Err(RachfordRiceError::NotFinite { field: "z", index, value: zi });
+            return Err(RachfordRiceError::NotFinite {
+                field: "z",
+                index,
+                value: zi,
+            });
         }
         if !ki.is_finite() {
-            return Err(RachfordRiceError::NotFinite { field: "K", index, value: ki });
+            return Err(RachfordRiceError::NotFinite {
+                field: "K",
+                index,
+                value: ki,
+            });
         }
         if zi < 0.0 {
             return Err(RachfordRiceError::NegativeMoleFraction { index, value: zi });
@@ -385,7 +393,11 @@ pub fn solve_into(
     // G(½) = ∓F(½) by orientation; dG/ds(½) = F'(½) in both.
     let mut iterations = 0;
     let (mut s, mut g, mut dg, mut scale) = if hi == 0.5 {
-        let g = if orientation == Orientation::Liquid { f_half } else { -f_half };
+        let g = if orientation == Orientation::Liquid {
+            f_half
+        } else {
+            -f_half
+        };
         (0.5, g, df_half, scale_half)
     } else {
         let (g, dg, scale) = problem.g_and_slope(hi);
@@ -629,7 +641,11 @@ impl<'a> Oriented<'a> {
     fn write_from_pole(&self, r: f64, x: &mut [f64], y: &mut [f64]) {
         for i in 0..self.z.len() {
             let zi = self.z[i] * self.inv_sum;
-            x[i] = if zi == 0.0 { 0.0 } else { zi / self.denominator_from_pole(i, r) };
+            x[i] = if zi == 0.0 {
+                0.0
+            } else {
+                zi / self.denominator_from_pole(i, r)
+            };
             y[i] = self.k[i] * x[i];
         }
     }
@@ -919,7 +935,11 @@ pub enum BatchShapeError {
 /// assert!(out.errors[1].is_some());
 /// assert_eq!(out.vapour_fraction[1], 0.0);
 /// ```
-pub fn solve_batch(z: ArrayView2<'_, f64>, k: ArrayView2<'_, f64>, out: &mut BatchOutput) -> Result<usize, BatchShapeError> {
+pub fn solve_batch(
+    z: ArrayView2<'_, f64>,
+    k: ArrayView2<'_, f64>,
+    out: &mut BatchOutput,
+) -> Result<usize, BatchShapeError> {
     solve_batch_with(z, k, Options::default(), out)
 }
 
@@ -964,7 +984,11 @@ pub fn solve_batch_with(
 /// assert_eq!(a, b);
 /// ```
 #[cfg(feature = "rayon")]
-pub fn par_solve_batch(z: ArrayView2<'_, f64>, k: ArrayView2<'_, f64>, out: &mut BatchOutput) -> Result<usize, BatchShapeError> {
+pub fn par_solve_batch(
+    z: ArrayView2<'_, f64>,
+    k: ArrayView2<'_, f64>,
+    out: &mut BatchOutput,
+) -> Result<usize, BatchShapeError> {
     par_solve_batch_with(z, k, Options::default(), out)
 }
 
@@ -993,7 +1017,11 @@ pub fn par_solve_batch_with(
     Ok(par_solve_rows(z, k, options, out.rows_mut()))
 }
 
-fn check_batch_shapes(z: ArrayView2<'_, f64>, k: ArrayView2<'_, f64>, out: &BatchOutput) -> Result<(), BatchShapeError> {
+fn check_batch_shapes(
+    z: ArrayView2<'_, f64>,
+    k: ArrayView2<'_, f64>,
+    out: &BatchOutput,
+) -> Result<(), BatchShapeError> {
     let (rows, n) = z.dim();
     if k.dim() != (rows, n) {
         return Err(BatchShapeError::Matrix {
@@ -1157,7 +1185,12 @@ mod tests {
         let (z, k) = ([0.4, 0.6], [2.5, 0.3]);
         let s = rachford_rice(&z, &k).unwrap();
         let exact = -(z[0] * (k[0] - 1.0) + z[1] * (k[1] - 1.0)) / ((k[0] - 1.0) * (k[1] - 1.0));
-        assert!((s.vapour_fraction - exact).abs() < 1e-15, "{} {}", s.vapour_fraction, exact);
+        assert!(
+            (s.vapour_fraction - exact).abs() < 1e-15,
+            "{} {}",
+            s.vapour_fraction,
+            exact
+        );
     }
 
     #[test]

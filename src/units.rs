@@ -216,11 +216,7 @@ fn example(kind: QuantityKind) -> &'static str {
 }
 
 fn accepted(kind: QuantityKind) -> String {
-    table(kind)
-        .iter()
-        .map(|u| u.names[0])
-        .collect::<Vec<_>>()
-        .join(", ")
+    table(kind).iter().map(|u| u.names[0]).collect::<Vec<_>>().join(", ")
 }
 
 fn find_unit(kind: QuantityKind, field: &str, name: &str) -> Result<&'static UnitDef, UnitError> {
@@ -536,7 +532,10 @@ mod tests {
         let e = Pressure::parse("P", "0 bar").unwrap_err();
         assert!(matches!(e, UnitError::OutOfRange { .. }));
         let e = Pressure::parse("P", "3 furlongs").unwrap_err();
-        assert!(e.to_string().contains("furlongs") && e.to_string().contains("kPa"), "{e}");
+        assert!(
+            e.to_string().contains("furlongs") && e.to_string().contains("kPa"),
+            "{e}"
+        );
         assert!(matches!(
             Pressure::parse("P", "NaN bar").unwrap_err(),
             UnitError::NotFinite { .. }
@@ -545,8 +544,14 @@ mod tests {
             Pressure::parse("P", "inf").unwrap_err(),
             UnitError::NotFinite { .. }
         ));
-        assert!(matches!(Pressure::new("P", f64::NAN).unwrap_err(), UnitError::NotFinite { .. }));
-        assert!(matches!(Pressure::parse("P", "").unwrap_err(), UnitError::NotANumber { .. }));
+        assert!(matches!(
+            Pressure::new("P", f64::NAN).unwrap_err(),
+            UnitError::NotFinite { .. }
+        ));
+        assert!(matches!(
+            Pressure::parse("P", "").unwrap_err(),
+            UnitError::NotANumber { .. }
+        ));
         assert!(matches!(
             MassFlow::parse("flow", "1 kg/h").unwrap().to_molar(0.0).unwrap_err(),
             UnitError::OutOfRange { .. }

@@ -57,7 +57,11 @@ fn water_duty_against_iapws() {
         let r = heater_duty(&s, tp(t1, ATM), tp(t2, ATM), o).unwrap();
         let reference = iapws_h(t2) - iapws_h(t1);
         let dev = r.duty_w / reference - 1.0;
-        println!("water {what}: {:.1} W vs IAPWS-IF97 {reference:.1} W ({:+.2} %)", r.duty_w, 100.0 * dev);
+        println!(
+            "water {what}: {:.1} W vs IAPWS-IF97 {reference:.1} W ({:+.2} %)",
+            r.duty_w,
+            100.0 * dev
+        );
         assert!(dev.abs() < tol, "{what}: {dev}");
     }
 }
@@ -75,7 +79,9 @@ fn latent_heat_read_as_duty_matches_handbook() {
         let s = stream(&[name], &[1.0]);
         let model = Raoult::from_names(&[name]).unwrap();
         let p = Pressure::new("P", ATM).unwrap();
-        let tb = flash(&model, &[1.0], FlashSpec::BubbleTemperature { pressure: p }).unwrap().temperature_k;
+        let tb = flash(&model, &[1.0], FlashSpec::BubbleTemperature { pressure: p })
+            .unwrap()
+            .temperature_k;
         let r = heater_duty(&s, tp(tb - 0.01, ATM), tp(tb + 0.01, ATM), DutyOptions::default()).unwrap();
         let reference = num(&row, "latent_heat_J_per_mol");
         let dev = r.duty_w / reference - 1.0;
@@ -84,7 +90,11 @@ fn latent_heat_read_as_duty_matches_handbook() {
             worst = (dev, name.to_string());
         }
     }
-    println!("worst latent heat at Tb vs CRC: {:+.2} % ({})", 100.0 * worst.0, worst.1);
+    println!(
+        "worst latent heat at Tb vs CRC: {:+.2} % ({})",
+        100.0 * worst.0,
+        worst.1
+    );
 }
 
 fn mixtures() -> impl Strategy<Value = (Vec<String>, Vec<f64>)> {
@@ -105,7 +115,11 @@ fn mixtures() -> impl Strategy<Value = (Vec<String>, Vec<f64>)> {
 fn options(phase: bool, t_ref: f64, path: VaporisationPath) -> DutyOptions {
     DutyOptions {
         reference: ReferenceState {
-            phase: if phase { ReferencePhase::Vapour } else { ReferencePhase::Liquid },
+            phase: if phase {
+                ReferencePhase::Vapour
+            } else {
+                ReferencePhase::Liquid
+            },
             temperature_k: t_ref,
         },
         path,
@@ -207,12 +221,22 @@ fn pure_component_through_its_boiling_point() {
     let s = stream(&["n-heptane"], &[1.0]);
     let p = Pressure::new("P", ATM).unwrap();
     let o = DutyOptions::default();
-    let sat_l = StreamState::PressureVapourFraction { pressure: p, vapour_fraction: 0.0 };
-    let sat_v = StreamState::PressureVapourFraction { pressure: p, vapour_fraction: 1.0 };
+    let sat_l = StreamState::PressureVapourFraction {
+        pressure: p,
+        vapour_fraction: 0.0,
+    };
+    let sat_v = StreamState::PressureVapourFraction {
+        pressure: p,
+        vapour_fraction: 1.0,
+    };
     let latent = heater_duty(&s, sat_l, sat_v, o).unwrap().duty_w;
     for frac in [0.0, 1e-6, 0.25, 0.5, 0.999_999, 1.0] {
         let r = outlet_for_duty(&s, sat_l, Power::new("duty", frac * latent).unwrap(), p, o).unwrap();
-        assert!((r.outlet.vapour_fraction - frac).abs() < 1e-9, "{frac}: {}", r.outlet.vapour_fraction);
+        assert!(
+            (r.outlet.vapour_fraction - frac).abs() < 1e-9,
+            "{frac}: {}",
+            r.outlet.vapour_fraction
+        );
     }
     let zero = outlet_for_duty(&s, tp(330.0, ATM), Power::new("duty", 0.0).unwrap(), p, o).unwrap();
     assert!((zero.outlet.temperature_k - 330.0).abs() < 1e-9);
@@ -243,7 +267,11 @@ fn worked_example_hydrocarbon_preheater() {
             acc += if i % 2 == 1 { 4.0 } else { 2.0 } * cp.cp(298.15 + i as f64 * h);
         }
         let dh = acc * h / 3.0;
-        let row = r.table.iter().find(|row| row.state == "outlet" && row.component == *name).unwrap();
+        let row = r
+            .table
+            .iter()
+            .find(|row| row.state == "outlet" && row.component == *name)
+            .unwrap();
         assert!((row.enthalpy_j_per_mol - dh).abs() < 1e-6 * dh, "{name}");
         assert!((row.flow_mol_s - zi).abs() < 1e-12);
         hand += zi * dh;
@@ -285,7 +313,11 @@ fn path_spread_is_reported() {
     let ps = r.path_spread;
     assert_eq!(ps.boiling_point_w, r.duty_w);
     assert!(ps.spread_w >= 0.0 && ps.relative < 0.05, "{ps:?}");
-    println!("water 20 -> 150 degC path spread: {:.1} W ({:.2} %)", ps.spread_w, 100.0 * ps.relative);
+    println!(
+        "water 20 -> 150 degC path spread: {:.1} W ({:.2} %)",
+        ps.spread_w,
+        100.0 * ps.relative
+    );
 }
 
 #[test]
@@ -293,7 +325,12 @@ fn heating_and_cooling_curves_have_breakpoints() {
     let s = stream(&["n-pentane", "n-hexane", "n-heptane"], &[0.3, 0.4, 0.3]);
     let c = heating_curve(&s, tp(290.0, ATM), tp(400.0, ATM), 21, DutyOptions::default()).unwrap();
     assert_eq!(c.points.len(), 23);
-    let names: Vec<_> = c.points.iter().map(|p| p.breakpoint).filter(|b| !b.is_empty()).collect();
+    let names: Vec<_> = c
+        .points
+        .iter()
+        .map(|p| p.breakpoint)
+        .filter(|b| !b.is_empty())
+        .collect();
     assert_eq!(names, ["bubble", "dew"]);
     for w in c.points.windows(2) {
         assert!(w[1].duty_w >= w[0].duty_w && w[1].temperature_k >= w[0].temperature_k - 1e-9);
@@ -303,7 +340,12 @@ fn heating_and_cooling_curves_have_breakpoints() {
     assert_eq!(bubble.temperature_k, c.bubble_temperature_k);
     let cooling = heating_curve(&s, tp(400.0, ATM), tp(290.0, ATM), 5, DutyOptions::default()).unwrap();
     assert!(cooling.duty_w < 0.0);
-    assert!(cooling.points.windows(2).all(|w| w[1].temperature_k <= w[0].temperature_k + 1e-9));
+    assert!(
+        cooling
+            .points
+            .windows(2)
+            .all(|w| w[1].temperature_k <= w[0].temperature_k + 1e-9)
+    );
     assert!((cooling.duty_w + c.duty_w).abs() < 1e-9 * c.duty_w);
 }
 
@@ -321,19 +363,54 @@ fn mass_flow_and_component_flows() {
 fn every_error_variant_is_reachable() {
     let s = stream(&["benzene", "toluene"], &[0.5, 0.5]);
     let e = heating_curve(&s, tp(300.0, ATM), tp(400.0, ATM), 1, DutyOptions::default()).unwrap_err();
-    assert!(matches!(e, EnergyError::TooFewPoints { value: 1 }) && e.to_string().contains("points"), "{e}");
+    assert!(
+        matches!(e, EnergyError::TooFewPoints { value: 1 }) && e.to_string().contains("points"),
+        "{e}"
+    );
     let e = Stream::from_component_flows_names(&["benzene", "toluene"], &[1.0, -1.0]).unwrap_err();
-    assert!(matches!(e, EnergyError::BadFlow { index: 1, .. }) && e.to_string().contains("flows[1]"), "{e}");
+    assert!(
+        matches!(e, EnergyError::BadFlow { index: 1, .. }) && e.to_string().contains("flows[1]"),
+        "{e}"
+    );
     let e = Stream::from_component_flows_names(&["benzene", "toluene"], &[0.0, 0.0]).unwrap_err();
     assert!(matches!(e, EnergyError::BadFlow { .. }), "{e}");
-    let e = Stream::from_names(&["benzene", "tolune"], &[0.5, 0.5], MolarFlow::new("flow", 1.0).unwrap()).unwrap_err();
-    assert!(matches!(e, EnergyError::UnknownComponent(_)) && e.to_string().contains("toluene"), "{e}");
+    let e = Stream::from_names(
+        &["benzene", "tolune"],
+        &[0.5, 0.5],
+        MolarFlow::new("flow", 1.0).unwrap(),
+    )
+    .unwrap_err();
+    assert!(
+        matches!(e, EnergyError::UnknownComponent(_)) && e.to_string().contains("toluene"),
+        "{e}"
+    );
     let e = Stream::from_names(&["benzene"], &[0.5, 0.5], MolarFlow::new("flow", 1.0).unwrap()).unwrap_err();
     assert!(matches!(e, EnergyError::Flash(_)), "{e}");
-    let e = outlet_for_duty(&s, tp(300.0, ATM), Power::new("duty", 1e12).unwrap(), Pressure::new("P", ATM).unwrap(), DutyOptions::default()).unwrap_err();
-    assert!(matches!(e, EnergyError::DutyOutOfReach { .. }) && e.to_string().contains("duty"), "{e}");
-    let e = heater_duty(&s, tp(300.0, ATM), StreamState::PressureVapourFraction { pressure: Pressure::new("P", ATM).unwrap(), vapour_fraction: 2.0 }, DutyOptions::default()).unwrap_err();
+    let e = outlet_for_duty(
+        &s,
+        tp(300.0, ATM),
+        Power::new("duty", 1e12).unwrap(),
+        Pressure::new("P", ATM).unwrap(),
+        DutyOptions::default(),
+    )
+    .unwrap_err();
+    assert!(
+        matches!(e, EnergyError::DutyOutOfReach { .. }) && e.to_string().contains("duty"),
+        "{e}"
+    );
+    let e = heater_duty(
+        &s,
+        tp(300.0, ATM),
+        StreamState::PressureVapourFraction {
+            pressure: Pressure::new("P", ATM).unwrap(),
+            vapour_fraction: 2.0,
+        },
+        DutyOptions::default(),
+    )
+    .unwrap_err();
     assert!(e.to_string().contains("vapour_fraction"), "{e}");
-    let e = MassFlow::parse("flow", "-3 kg/h").map_err(EnergyError::from).unwrap_err();
+    let e = MassFlow::parse("flow", "-3 kg/h")
+        .map_err(EnergyError::from)
+        .unwrap_err();
     assert!(matches!(e, EnergyError::Unit(_)), "{e}");
 }

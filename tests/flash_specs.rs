@@ -34,12 +34,18 @@ fn pure_bubble_temperature_is_the_handbook_boiling_point() {
         let d = flash(&m, &[1.0], FlashSpec::DewTemperature { pressure: p(ATM) }).unwrap();
         let dev = r.temperature_k - tb;
         assert!(dev.abs() < 0.5, "{name}: bubble T {} K vs CRC {tb} K", r.temperature_k);
-        assert!((d.temperature_k - r.temperature_k).abs() < 1e-9, "{name}: pure dew T differs");
+        assert!(
+            (d.temperature_k - r.temperature_k).abs() < 1e-9,
+            "{name}: pure dew T differs"
+        );
         if dev.abs() > worst.0.abs() {
             worst = (dev, name.clone());
         }
     }
-    println!("worst pure bubble T deviation from CRC: {:+.3} K ({})", worst.0, worst.1);
+    println!(
+        "worst pure bubble T deviation from CRC: {:+.3} K ({})",
+        worst.0, worst.1
+    );
 }
 
 /// Benzene–toluene at 101.325 kPa follows Raoult's law closely: bubble and dew temperatures
@@ -78,14 +84,21 @@ fn ethanol_water_deviation_is_documented() {
         let (x, y, tk) = (num(&row, "x_ethanol"), num(&row, "y_ethanol"), num(&row, "T_K"));
         let b = flash(&m, &[x, 1.0 - x], FlashSpec::BubbleTemperature { pressure: p(ATM) }).unwrap();
         let yc = b.vapour.as_ref().unwrap()[0];
-        println!("{x:.4}  {tk:.2}  {:.2}  {:+.2}  {y:.4}  {yc:.4}", b.temperature_k, b.temperature_k - tk);
+        println!(
+            "{x:.4}  {tk:.2}  {:.2}  {:+.2}  {y:.4}  {yc:.4}",
+            b.temperature_k,
+            b.temperature_k - tk
+        );
         if (b.temperature_k - tk).abs() > worst.0.abs() {
             worst = (b.temperature_k - tk, x);
         }
     }
     println!("worst bubble-T deviation {:+.2} K at x = {}", worst.0, worst.1);
     // Measured with the library data: about +8 K in the dilute-ethanol region.
-    assert!(worst.0 > 4.0, "Raoult's law unexpectedly good for ethanol-water: {worst:?}");
+    assert!(
+        worst.0 > 4.0,
+        "Raoult's law unexpectedly good for ethanol-water: {worst:?}"
+    );
     // At the azeotrope the data have y = x; Raoult's law gives a vapour richer in ethanol
     // and a bubble point above the azeotrope temperature.
     let az = flash(&m, &[0.8943, 0.1057], FlashSpec::BubbleTemperature { pressure: p(ATM) }).unwrap();
@@ -96,7 +109,12 @@ fn ethanol_water_deviation_is_documented() {
 fn mixtures() -> impl Strategy<Value = (Vec<String>, Vec<f64>)> {
     let names: Vec<String> = Library::builtin().components().map(|c| c.name().to_string()).collect();
     (2usize..=6)
-        .prop_flat_map(move |n| (proptest::sample::subsequence(names.clone(), n), proptest::collection::vec(0.05f64..1.0, n)))
+        .prop_flat_map(move |n| {
+            (
+                proptest::sample::subsequence(names.clone(), n),
+                proptest::collection::vec(0.05f64..1.0, n),
+            )
+        })
         .prop_map(|(names, w)| {
             let s: f64 = w.iter().sum();
             (names, w.iter().map(|v| v / s).collect())
@@ -173,17 +191,27 @@ fn bubble_and_dew_points_report_the_incipient_phase() {
     let y = b.vapour.as_ref().unwrap();
     assert!((y.iter().sum::<f64>() - 1.0).abs() < 1e-14);
     // Raoult's law: bubble pressure = Σ z Psat exactly.
-    let explicit: f64 = m.components().iter().zip(&z).map(|(c, z)| {
-        use flashduty::properties::VapourPressure;
-        z * c.vapour_pressure().psat_pa(350.0)
-    }).sum();
+    let explicit: f64 = m
+        .components()
+        .iter()
+        .zip(&z)
+        .map(|(c, z)| {
+            use flashduty::properties::VapourPressure;
+            z * c.vapour_pressure().psat_pa(350.0)
+        })
+        .sum();
     assert!((b.pressure_pa / explicit - 1.0).abs() < 1e-13);
     let d = flash(&m, &z, FlashSpec::DewPressure { temperature: t(350.0) }).unwrap();
     assert_eq!(d.phase, Phase::Vapour);
-    let explicit_dew = 1.0 / m.components().iter().zip(&z).map(|(c, z)| {
-        use flashduty::properties::VapourPressure;
-        z / c.vapour_pressure().psat_pa(350.0)
-    }).sum::<f64>();
+    let explicit_dew = 1.0
+        / m.components()
+            .iter()
+            .zip(&z)
+            .map(|(c, z)| {
+                use flashduty::properties::VapourPressure;
+                z / c.vapour_pressure().psat_pa(350.0)
+            })
+            .sum::<f64>();
     assert!((d.pressure_pa / explicit_dew - 1.0).abs() < 1e-13);
     assert!((d.liquid.as_ref().unwrap().iter().sum::<f64>() - 1.0).abs() < 1e-14);
 }
@@ -191,45 +219,109 @@ fn bubble_and_dew_points_report_the_incipient_phase() {
 #[test]
 fn warnings_are_machine_readable() {
     let m = Raoult::from_names(&["propane", "n-decane"]).unwrap();
-    let r = flash(&m, &[0.5, 0.5], FlashSpec::TemperaturePressure { temperature: t(400.0), pressure: p(1e6) }).unwrap();
-    assert!(r.warnings.iter().any(|w| matches!(w, Warning::Supercritical { component, .. } if component == "propane")));
+    let r = flash(
+        &m,
+        &[0.5, 0.5],
+        FlashSpec::TemperaturePressure {
+            temperature: t(400.0),
+            pressure: p(1e6),
+        },
+    )
+    .unwrap();
+    assert!(
+        r.warnings
+            .iter()
+            .any(|w| matches!(w, Warning::Supercritical { component, .. } if component == "propane"))
+    );
     assert!(r.warnings.iter().any(|w| matches!(w, Warning::HighPressure { .. })));
-    assert!(r.warnings.iter().any(|w| matches!(w, Warning::CorrelationExtrapolated { correlation: "vapour_pressure", .. })));
+    assert!(r.warnings.iter().any(|w| matches!(
+        w,
+        Warning::CorrelationExtrapolated {
+            correlation: "vapour_pressure",
+            ..
+        }
+    )));
     let json = serde_json::to_value(&r.warnings).unwrap();
     assert!(json.as_array().unwrap().iter().all(|w| w.get("kind").is_some()));
-    let quiet = flash(&Raoult::from_names(&["benzene", "toluene"]).unwrap(), &[0.5, 0.5],
-        FlashSpec::TemperaturePressure { temperature: t(300.0), pressure: p(ATM) }).unwrap();
+    let quiet = flash(
+        &Raoult::from_names(&["benzene", "toluene"]).unwrap(),
+        &[0.5, 0.5],
+        FlashSpec::TemperaturePressure {
+            temperature: t(300.0),
+            pressure: p(ATM),
+        },
+    )
+    .unwrap();
     assert!(quiet.warnings.is_empty(), "{:?}", quiet.warnings);
 }
 
 #[test]
 fn every_error_variant_names_the_field() {
     let m = Raoult::from_names(&["benzene", "toluene"]).unwrap();
-    let e = flash(&m, &[0.5, 0.5], FlashSpec::PressureVapourFraction { pressure: p(ATM), vapour_fraction: 1.5 }).unwrap_err();
-    assert!(matches!(e, FlashError::VapourFractionOutOfRange { .. }) && e.to_string().contains("1.5"), "{e}");
-    let e = flash(&m, &[0.5, 0.5], FlashSpec::TemperatureVapourFraction { temperature: t(300.0), vapour_fraction: f64::NAN }).unwrap_err();
+    let e = flash(
+        &m,
+        &[0.5, 0.5],
+        FlashSpec::PressureVapourFraction {
+            pressure: p(ATM),
+            vapour_fraction: 1.5,
+        },
+    )
+    .unwrap_err();
+    assert!(
+        matches!(e, FlashError::VapourFractionOutOfRange { .. }) && e.to_string().contains("1.5"),
+        "{e}"
+    );
+    let e = flash(
+        &m,
+        &[0.5, 0.5],
+        FlashSpec::TemperatureVapourFraction {
+            temperature: t(300.0),
+            vapour_fraction: f64::NAN,
+        },
+    )
+    .unwrap_err();
     assert!(matches!(e, FlashError::VapourFractionOutOfRange { .. }));
     let e = flash(&m, &[1.0], FlashSpec::BubbleTemperature { pressure: p(ATM) }).unwrap_err();
-    assert!(matches!(e, FlashError::ComponentCount { components: 2, z: 1 }) && e.to_string().contains("z"), "{e}");
+    assert!(
+        matches!(e, FlashError::ComponentCount { components: 2, z: 1 }) && e.to_string().contains("z"),
+        "{e}"
+    );
     let e = flash(&m, &[0.7, 0.7], FlashSpec::BubbleTemperature { pressure: p(ATM) }).unwrap_err();
-    assert!(matches!(e, FlashError::Feed(RachfordRiceError::MoleFractionSum { .. })), "{e}");
+    assert!(
+        matches!(e, FlashError::Feed(RachfordRiceError::MoleFractionSum { .. })),
+        "{e}"
+    );
     let e = flash(&m, &[-0.1, 1.1], FlashSpec::BubbleTemperature { pressure: p(ATM) }).unwrap_err();
     assert!(e.to_string().contains("z[0]"), "{e}");
     // A non-volatile component: no dew point.
     let nv = GivenK::new(vec![3.0, 0.0]);
     let e = flash(&nv, &[0.5, 0.5], FlashSpec::DewTemperature { pressure: p(ATM) }).unwrap_err();
-    assert!(matches!(e, FlashError::NoDewPoint { .. }) && e.to_string().contains("component 2"), "{e}");
+    assert!(
+        matches!(e, FlashError::NoDewPoint { .. }) && e.to_string().contains("component 2"),
+        "{e}"
+    );
     let e = flash(&nv, &[0.5, 0.5], FlashSpec::DewPressure { temperature: t(300.0) }).unwrap_err();
     assert!(matches!(e, FlashError::NoDewPoint { .. }), "{e}");
     // K-values that never reach the bubble condition.
     let low = GivenK::new(vec![0.5, 0.1]);
     let e = flash(&low, &[0.5, 0.5], FlashSpec::BubbleTemperature { pressure: p(ATM) }).unwrap_err();
-    assert!(matches!(e, FlashError::NoSolution { .. }) && e.to_string().contains("bubble temperature"), "{e}");
+    assert!(
+        matches!(e, FlashError::NoSolution { .. }) && e.to_string().contains("bubble temperature"),
+        "{e}"
+    );
     // Unknown component, with a suggestion.
     let e = Raoult::from_names(&["benzene", "toluen"]).unwrap_err();
     assert!(e.to_string().contains("toluene"), "{e}");
     // A composition loop that cannot settle.
-    let e = flash(&Flipper, &[0.5, 0.5], FlashSpec::TemperaturePressure { temperature: t(300.0), pressure: p(ATM) }).unwrap_err();
+    let e = flash(
+        &Flipper,
+        &[0.5, 0.5],
+        FlashSpec::TemperaturePressure {
+            temperature: t(300.0),
+            pressure: p(ATM),
+        },
+    )
+    .unwrap_err();
     assert!(matches!(e, FlashError::NotConverged { .. }), "{e}");
 }
 
@@ -278,17 +370,33 @@ impl KValueModel for Margules {
 fn composition_dependent_models_plug_in() {
     use flashduty::properties::VapourPressure;
     let raoult = Raoult::from_names(&["benzene", "cyclohexane"]).unwrap();
-    let m = Margules { raoult: raoult.clone(), a: 0.5 };
+    let m = Margules {
+        raoult: raoult.clone(),
+        a: 0.5,
+    };
     let z = [0.5, 0.5];
     let b = flash(&m, &z, FlashSpec::BubbleTemperature { pressure: p(ATM) }).unwrap();
     let b0 = flash(&raoult, &z, FlashSpec::BubbleTemperature { pressure: p(ATM) }).unwrap();
-    assert!(b.temperature_k < b0.temperature_k, "positive deviation lowers the bubble point");
+    assert!(
+        b.temperature_k < b0.temperature_k,
+        "positive deviation lowers the bubble point"
+    );
     // Check the bubble condition Σ γ x Psat = P by hand at the result.
     let g = [(0.5f64 * 0.25).exp(), (0.5f64 * 0.25).exp()];
-    let sum: f64 = (0..2).map(|i| g[i] * z[i] * raoult.components()[i].vapour_pressure().psat_pa(b.temperature_k)).sum();
+    let sum: f64 = (0..2)
+        .map(|i| g[i] * z[i] * raoult.components()[i].vapour_pressure().psat_pa(b.temperature_k))
+        .sum();
     assert!((sum / ATM - 1.0).abs() < 1e-10, "{sum}");
     let d = flash(&m, &z, FlashSpec::DewTemperature { pressure: p(ATM) }).unwrap();
-    let tp = flash(&m, &z, FlashSpec::TemperaturePressure { temperature: t(0.5 * (b.temperature_k + d.temperature_k)), pressure: p(ATM) }).unwrap();
+    let tp = flash(
+        &m,
+        &z,
+        FlashSpec::TemperaturePressure {
+            temperature: t(0.5 * (b.temperature_k + d.temperature_k)),
+            pressure: p(ATM),
+        },
+    )
+    .unwrap();
     assert_eq!(tp.phase, Phase::TwoPhase);
     // At the converged split, y = γ(x) x Psat / P.
     let x = tp.liquid.as_ref().unwrap();

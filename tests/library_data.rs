@@ -123,11 +123,7 @@ fn rel(a: f64, b: f64) -> f64 {
 #[test]
 fn builtin_library_loads_with_all_required_components() {
     let parsed = Library::try_builtin();
-    assert!(
-        parsed.is_ok(),
-        "built-in library does not load: {:?}",
-        parsed.err()
-    );
+    assert!(parsed.is_ok(), "built-in library does not load: {:?}", parsed.err());
     let parsed = parsed.unwrap();
     assert!(parsed.len() >= 31, "only {} components", parsed.len());
     assert_eq!(lib().len(), parsed.len());
@@ -160,11 +156,7 @@ fn common_synonyms_resolve() {
         ("propanone", "acetone"),
     ];
     for (syn, name) in pairs {
-        assert_eq!(
-            lib().get(syn).unwrap_or_else(|e| panic!("{e}")).name(),
-            name,
-            "{syn}"
-        );
+        assert_eq!(lib().get(syn).unwrap_or_else(|e| panic!("{e}")).name(), name, "{syn}");
     }
 }
 
@@ -189,19 +181,8 @@ fn sources_resolve_and_cas_numbers_are_well_formed() {
             .map(|d| d.to_digit(10).unwrap())
             .collect();
         let (check, body) = digits.split_last().expect("CAS digits");
-        let sum: u32 = body
-            .iter()
-            .rev()
-            .enumerate()
-            .map(|(i, d)| (i as u32 + 1) * d)
-            .sum();
-        assert_eq!(
-            sum % 10,
-            *check,
-            "{}: CAS {} has a bad check digit",
-            c.name(),
-            c.cas()
-        );
+        let sum: u32 = body.iter().rev().enumerate().map(|(i, d)| (i as u32 + 1) * d).sum();
+        assert_eq!(sum % 10, *check, "{}: CAS {} has a bad check digit", c.name(), c.cas());
     }
 }
 
@@ -256,19 +237,10 @@ fn constants_are_physically_ordered() {
         let (tb, tc) = (c.normal_boiling_point_k(), c.critical_temperature_k());
         assert!(tb < tc, "{}", c.name());
         // Critical pressures of these liquids lie between 1 and 25 MPa.
-        assert!(
-            (1e6..2.5e7).contains(&c.critical_pressure_pa()),
-            "{}",
-            c.name()
-        );
+        assert!((1e6..2.5e7).contains(&c.critical_pressure_pa()), "{}", c.name());
         assert!((0.0..1.0).contains(&c.acentric_factor()), "{}", c.name());
         // Guldberg's rule: Tb/Tc is about 2/3 for ordinary liquids (0.55..0.75 here).
-        assert!(
-            (0.55..0.75).contains(&(tb / tc)),
-            "{}: Tb/Tc = {}",
-            c.name(),
-            tb / tc
-        );
+        assert!((0.55..0.75).contains(&(tb / tc)), "{}: Tb/Tc = {}", c.name(), tb / tc);
     }
 }
 
@@ -296,11 +268,7 @@ fn vapour_pressure_at_normal_boiling_point_is_one_atmosphere() {
             worst = (d, c.name());
         }
     }
-    println!(
-        "Psat(Tb) vs 101.325 kPa: worst {:+.3} % ({})",
-        100.0 * worst.0,
-        worst.1
-    );
+    println!("Psat(Tb) vs 101.325 kPa: worst {:+.3} % ({})", 100.0 * worst.0, worst.1);
 }
 
 /// ΔH = R Tb² d(ln Psat)/dT (Clausius–Clapeyron, ideal vapour, liquid volume neglected)
@@ -430,12 +398,7 @@ fn latent_heat_shape() {
             assert!(slope < 0.0, "{}: slope {slope} at {t} K", c.name());
             prev = h;
         }
-        assert_eq!(
-            lh.latent_heat(t_zero),
-            0.0,
-            "{}: not zero at {t_zero} K",
-            c.name()
-        );
+        assert_eq!(lh.latent_heat(t_zero), 0.0, "{}: not zero at {t_zero} K", c.name());
         assert_eq!(lh.latent_heat(t_zero + 10.0), 0.0, "{}", c.name());
     }
 }
@@ -462,32 +425,17 @@ fn heat_capacities_positive_over_validity_ranges() {
             ("vapour", c.vapour_heat_capacity()),
         ] {
             let r = m.validity();
-            assert!(
-                r.max_k.is_finite() && r.min_k > 0.0,
-                "{} {what}: range {r:?}",
-                c.name()
-            );
+            assert!(r.max_k.is_finite() && r.min_k > 0.0, "{} {what}: range {r:?}", c.name());
             for i in 0..=500 {
                 let t = r.min_k + (r.max_k - r.min_k) * f64::from(i) / 500.0;
                 let cp = m.cp(t);
-                assert!(
-                    cp > 0.0 && cp.is_finite(),
-                    "{} {what}: Cp({t}) = {cp}",
-                    c.name()
-                );
+                assert!(cp > 0.0 && cp.is_finite(), "{} {what}: Cp({t}) = {cp}", c.name());
             }
         }
         // The liquid holds more heat than its ideal gas at the boiling point.
         let tb = c.normal_boiling_point_k();
-        let (cl, cg) = (
-            c.liquid_heat_capacity().cp(tb),
-            c.vapour_heat_capacity().cp(tb),
-        );
-        assert!(
-            cl > cg,
-            "{}: Cp liquid {cl:.1} <= Cp gas {cg:.1} at Tb",
-            c.name()
-        );
+        let (cl, cg) = (c.liquid_heat_capacity().cp(tb), c.vapour_heat_capacity().cp(tb));
+        assert!(cl > cg, "{}: Cp liquid {cl:.1} <= Cp gas {cg:.1} at Tb", c.name());
         if c.liquid_heat_capacity().is_extrapolated(tb) {
             println!(
                 "note: {} liquid Cp range {:?} does not reach Tb {tb} K",
@@ -534,10 +482,7 @@ fn library_agrees_with_handbook_boiling_points_and_latent_heats() {
     for row in &lh_rows {
         let c = lib().get(&row["name"]).unwrap_or_else(|e| panic!("{e}"));
         let t = num(row, "T_K");
-        let d = rel(
-            c.latent_heat().latent_heat(t),
-            num(row, "latent_heat_J_per_mol"),
-        );
+        let d = rel(c.latent_heat().latent_heat(t), num(row, "latent_heat_J_per_mol"));
         assert!(
             d.abs() < 0.03,
             "{}: latent heat at {t} K {:+.2} % from CRC",
@@ -576,15 +521,8 @@ fn water_matches_iapws_if97() {
             }
         }
         if (300.0..=450.0).contains(&t) {
-            let d = rel(
-                w.latent_heat().latent_heat(t),
-                num(row, "latent_heat_J_per_mol"),
-            );
-            assert!(
-                d.abs() < 0.02,
-                "water latent heat at {t} K: {:+.3} %",
-                100.0 * d
-            );
+            let d = rel(w.latent_heat().latent_heat(t), num(row, "latent_heat_J_per_mol"));
+            assert!(d.abs() < 0.02, "water latent heat at {t} K: {:+.3} %", 100.0 * d);
             nh += 1;
             if d.abs() > worst_h.0.abs() {
                 worst_h = (d, t);
@@ -603,9 +541,7 @@ fn water_matches_iapws_if97() {
 
 /// Bubble temperature of an ideal (Raoult's-law) binary at 1 atm, by bisection.
 fn bubble_t(a: &Component, b: &Component, xa: f64) -> f64 {
-    let f = |t: f64| {
-        xa * a.vapour_pressure().psat_pa(t) + (1.0 - xa) * b.vapour_pressure().psat_pa(t) - ATM_PA
-    };
+    let f = |t: f64| xa * a.vapour_pressure().psat_pa(t) + (1.0 - xa) * b.vapour_pressure().psat_pa(t) - ATM_PA;
     let (mut lo, mut hi) = (200.0, 600.0);
     for _ in 0..200 {
         let mid = 0.5 * (lo + hi);
@@ -627,17 +563,10 @@ fn benzene_toluene_raoult_matches_handbook_vle() {
     assert!(rows.len() >= 5);
     let mut worst = (0.0f64, 0.0f64);
     for row in &rows {
-        let (x, y, texp) = (
-            num(row, "x_benzene"),
-            num(row, "y_benzene"),
-            num(row, "T_K"),
-        );
+        let (x, y, texp) = (num(row, "x_benzene"), num(row, "y_benzene"), num(row, "T_K"));
         let tcalc = bubble_t(b, t, x);
         let ycalc = x * b.vapour_pressure().psat_pa(tcalc) / ATM_PA;
-        assert!(
-            (tcalc - texp).abs() < 1.0,
-            "x = {x}: T {tcalc:.2} vs {texp}"
-        );
+        assert!((tcalc - texp).abs() < 1.0, "x = {x}: T {tcalc:.2} vs {texp}");
         assert!((ycalc - y).abs() < 0.02, "x = {x}: y {ycalc:.3} vs {y}");
         worst.0 = worst.0.max((tcalc - texp).abs());
         worst.1 = worst.1.max((ycalc - y).abs());
@@ -663,11 +592,7 @@ fn ethanol_water_fixture_holds_the_azeotrope() {
         .iter()
         .min_by(|a, b| num(a, "T_K").total_cmp(&num(b, "T_K")))
         .unwrap();
-    let (x, y, t) = (
-        num(tmin, "x_ethanol"),
-        num(tmin, "y_ethanol"),
-        num(tmin, "T_K"),
-    );
+    let (x, y, t) = (num(tmin, "x_ethanol"), num(tmin, "y_ethanol"), num(tmin, "T_K"));
     assert!(
         (x - 0.894).abs() < 0.01 && (x - y).abs() < 1e-9 && (t - 351.3).abs() < 0.2,
         "{tmin:?}"

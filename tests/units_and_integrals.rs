@@ -66,15 +66,28 @@ proptest! {
 #[test]
 fn conversion_factors() {
     assert!(rel(Pressure::parse("P", "1 psia").unwrap().pascal(), 6_894.757_293_168) < 1e-12);
-    assert!(rel(MolarFlow::parse("F", "1 lbmol/h").unwrap().mol_per_s(), 0.453_592_37 * 1000.0 / 3600.0) < 1e-15);
+    assert!(
+        rel(
+            MolarFlow::parse("F", "1 lbmol/h").unwrap().mol_per_s(),
+            0.453_592_37 * 1000.0 / 3600.0
+        ) < 1e-15
+    );
     assert!(rel(Power::parse("Q", "1 Btu/h").unwrap().watts(), 1_055.055_852_62 / 3600.0) < 1e-15);
     assert!(rel(MolarEnthalpy::parse("h", "1 Btu/lbmol").unwrap().joule_per_mol(), 2.326) < 1e-15);
     assert!(rel(Temperature::parse("T", "32 degF").unwrap().kelvin(), 273.15) < 1e-15);
     assert!(rel(Temperature::parse("T", "491.67 degR").unwrap().kelvin(), 273.15) < 1e-15);
     assert!(rel(Pressure::parse("P", "760 mmHg").unwrap().pascal(), 101_325.0) < 1e-6);
-    assert!(rel(MassFlow::parse("m", "1 lb/h").unwrap().kg_per_s(), 0.453_592_37 / 3600.0) < 1e-15);
+    assert!(
+        rel(
+            MassFlow::parse("m", "1 lb/h").unwrap().kg_per_s(),
+            0.453_592_37 / 3600.0
+        ) < 1e-15
+    );
     assert_eq!(Pressure::parse("P", "1.01325 bar").unwrap().pascal(), 101_325.0);
-    assert_eq!(Temperature::parse("T", "300 K").unwrap().in_unit("degC").unwrap(), 300.0 - 273.15);
+    assert_eq!(
+        Temperature::parse("T", "300 K").unwrap().in_unit("degC").unwrap(),
+        300.0 - 273.15
+    );
 }
 
 /// Every error path of the units layer names the field and the value.
@@ -82,8 +95,14 @@ fn conversion_factors() {
 fn unit_errors() {
     let cases: Vec<(Result<f64, UnitError>, &str)> = vec![
         (Temperature::parse("inlet.T", "hot").map(|t| t.kelvin()), "hot"),
-        (Temperature::parse("inlet.T", "0 K").map(|t| t.kelvin()), "absolute zero"),
-        (Temperature::parse("inlet.T", "-500 degF").map(|t| t.kelvin()), "-500 degF"),
+        (
+            Temperature::parse("inlet.T", "0 K").map(|t| t.kelvin()),
+            "absolute zero",
+        ),
+        (
+            Temperature::parse("inlet.T", "-500 degF").map(|t| t.kelvin()),
+            "-500 degF",
+        ),
         (Pressure::parse("P", "-1 bar").map(|p| p.pascal()), "-1 bar"),
         (Pressure::parse("P", "0").map(|p| p.pascal()), "at or below zero"),
         (Pressure::parse("P", "3 psig").map(|p| p.pascal()), "psig"),
@@ -100,6 +119,13 @@ fn unit_errors() {
         let e = r.unwrap_err();
         let msg = e.to_string();
         assert!(msg.contains(needle), "{msg} lacks {needle}");
-        assert!(msg.starts_with("inlet.T") || msg.starts_with('P') || msg.starts_with("flow") || msg.starts_with("duty") || msg.starts_with("unit"), "{msg}");
+        assert!(
+            msg.starts_with("inlet.T")
+                || msg.starts_with('P')
+                || msg.starts_with("flow")
+                || msg.starts_with("duty")
+                || msg.starts_with("unit"),
+            "{msg}"
+        );
     }
 }

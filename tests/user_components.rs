@@ -92,19 +92,13 @@ fn add_json_err(text: &str) -> ComponentError {
     let mut lib = Library::builtin().clone();
     let before = lib.len();
     let err = lib.add_json("user.json", text).expect_err("should fail");
-    assert_eq!(
-        lib.len(),
-        before,
-        "a failed add must leave the library unchanged"
-    );
+    assert_eq!(lib.len(), before, "a failed add must leave the library unchanged");
     err
 }
 
 fn assert_invalid(err: &ComponentError, field_part: &str) {
     match err {
-        ComponentError::InvalidValue {
-            component, field, ..
-        } => {
+        ComponentError::InvalidValue { component, field, .. } => {
             assert_eq!(component, "examplane");
             assert!(
                 field.contains(field_part),
@@ -114,21 +108,14 @@ fn assert_invalid(err: &ComponentError, field_part: &str) {
         other => panic!("expected InvalidValue for {field_part}, got {other:?}"),
     }
     let msg = err.to_string();
-    assert!(
-        msg.contains("examplane") && msg.contains(field_part),
-        "message: {msg}"
-    );
+    assert!(msg.contains("examplane") && msg.contains(field_part), "message: {msg}");
 }
 
 #[test]
 fn valid_json_component_loads_and_is_found_by_name_synonym_and_cas() {
     let mut lib = Library::builtin().clone();
     let before = lib.len();
-    assert_eq!(
-        lib.add_json("user.json", &valid_file().to_string())
-            .unwrap(),
-        1
-    );
+    assert_eq!(lib.add_json("user.json", &valid_file().to_string()).unwrap(), 1);
     assert_eq!(lib.len(), before + 1);
     for key in [
         "examplane",
@@ -161,16 +148,11 @@ fn valid_toml_component_loads_like_json() {
     let mut lib = Library::default();
     assert_eq!(lib.add_toml("user.toml", VALID_TOML).unwrap(), 1);
     let mut from_json = Library::default();
-    from_json
-        .add_json("user.json", &valid_file().to_string())
-        .unwrap();
+    from_json.add_json("user.json", &valid_file().to_string()).unwrap();
     let (a, b) = (lib.get("EXL").unwrap(), from_json.get("exl").unwrap());
     assert_eq!(a.name(), b.name());
     assert_eq!(a.critical_temperature_k(), b.critical_temperature_k());
-    assert_eq!(
-        a.vapour_pressure().psat_pa(320.0),
-        b.vapour_pressure().psat_pa(320.0)
-    );
+    assert_eq!(a.vapour_pressure().psat_pa(320.0), b.vapour_pressure().psat_pa(320.0));
     assert_eq!(lib.get("99999-99-9").unwrap().name(), "examplane");
 }
 
@@ -181,21 +163,15 @@ fn user_file_may_cite_builtin_sources() {
     let mut lib = Library::builtin().clone();
     lib.add_json("user.json", &f.to_string()).unwrap();
     // An empty library knows no such key.
-    let err = Library::default()
-        .add_json("user.json", &f.to_string())
-        .unwrap_err();
-    assert!(
-        matches!(err, ComponentError::UnknownSource { .. }),
-        "{err:?}"
-    );
+    let err = Library::default().add_json("user.json", &f.to_string()).unwrap_err();
+    assert!(matches!(err, ComponentError::UnknownSource { .. }), "{err:?}");
 }
 
 #[test]
 fn component_round_trips_through_to_json() {
     let lib = Library::builtin();
     let toluene = lib.get("toluene").unwrap();
-    let file =
-        json!({"schema": SCHEMA, "sources": lib.sources(), "components": [toluene.to_json()]});
+    let file = json!({"schema": SCHEMA, "sources": lib.sources(), "components": [toluene.to_json()]});
     let mut fresh = Library::default();
     fresh.add_json("roundtrip.json", &file.to_string()).unwrap();
     let t = fresh.get("toluol").unwrap();
@@ -313,9 +289,7 @@ fn unknown_source_key_is_rejected() {
     }
     let msg = err.to_string();
     assert!(
-        msg.contains("examplane")
-            && msg.contains("critical_pressure_Pa")
-            && msg.contains("my-notebook"),
+        msg.contains("examplane") && msg.contains("critical_pressure_Pa") && msg.contains("my-notebook"),
         "{msg}"
     );
     // Also inside a correlation.
@@ -348,13 +322,9 @@ fn duplicate_name_synonym_or_cas_is_rejected() {
     // Adding the same file twice.
     let mut lib = Library::default();
     lib.add_json("a.json", &valid_file().to_string()).unwrap();
-    let err = lib
-        .add_json("b.json", &valid_file().to_string())
-        .unwrap_err();
+    let err = lib.add_json("b.json", &valid_file().to_string()).unwrap_err();
     match &err {
-        ComponentError::Duplicate {
-            component, other, ..
-        } => {
+        ComponentError::Duplicate { component, other, .. } => {
             assert_eq!(component, "examplane");
             assert_eq!(other, "examplane");
         }
@@ -371,10 +341,7 @@ fn duplicate_within_one_file_adds_nothing() {
     let mut lib = Library::default();
     let err = lib.add_json("twice.json", &f.to_string()).unwrap_err();
     assert!(matches!(err, ComponentError::Duplicate { .. }), "{err:?}");
-    assert!(
-        lib.is_empty(),
-        "a file that fails must add none of its components"
-    );
+    assert!(lib.is_empty(), "a file that fails must add none of its components");
 }
 
 // ---- Parse ----
@@ -384,10 +351,7 @@ fn assert_parse(err: &ComponentError, file: &str, parts: &[&str]) {
         ComponentError::Parse { file: f, message } => {
             assert_eq!(f, file);
             for p in parts {
-                assert!(
-                    message.contains(p),
-                    "message {message:?} does not mention {p:?}"
-                );
+                assert!(message.contains(p), "message {message:?} does not mention {p:?}");
             }
         }
         other => panic!("expected Parse, got {other:?}"),
@@ -397,12 +361,7 @@ fn assert_parse(err: &ComponentError, file: &str, parts: &[&str]) {
 
 #[test]
 fn missing_required_field_is_a_parse_error_naming_the_field() {
-    for field in [
-        "cas",
-        "critical_temperature_K",
-        "vapour_pressure",
-        "latent_heat",
-    ] {
+    for field in ["cas", "critical_temperature_K", "vapour_pressure", "latent_heat"] {
         let err = add_json_err(&without(field));
         assert_parse(&err, "user.json", &[field]);
     }
@@ -427,11 +386,7 @@ fn missing_required_field_error_names_the_component() {
 fn unknown_field_is_a_parse_error_naming_it() {
     let mut f = valid_file();
     f["components"][0]["boiling_point"] = json!(350.0);
-    assert_parse(
-        &add_json_err(&f.to_string()),
-        "user.json",
-        &["boiling_point"],
-    );
+    assert_parse(&add_json_err(&f.to_string()), "user.json", &["boiling_point"]);
 }
 
 #[test]
@@ -493,10 +448,7 @@ fn malformed_toml_is_rejected() {
         .unwrap_err();
     assert_parse(&err, "user.toml", &[]);
     let err = lib
-        .add_toml(
-            "user.toml",
-            &VALID_TOML.replace("cas = \"99999-99-9\"\n", ""),
-        )
+        .add_toml("user.toml", &VALID_TOML.replace("cas = \"99999-99-9\"\n", ""))
         .unwrap_err();
     assert_parse(&err, "user.toml", &["cas"]);
     assert_eq!(lib.len(), before);

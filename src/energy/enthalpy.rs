@@ -170,9 +170,9 @@ impl EnthalpyModel {
     /// `TwoPhase` is read as liquid) at `t_k`, relative to the reference state. An index out
     /// of range gives zero.
     pub fn pure(&self, index: usize, phase: Phase, t_k: f64) -> EnthalpySplit {
-        self.components
-            .get(index)
-            .map_or_else(EnthalpySplit::default, |c| pure_enthalpy(c, phase, t_k, self.reference, self.path))
+        self.components.get(index).map_or_else(EnthalpySplit::default, |c| {
+            pure_enthalpy(c, phase, t_k, self.reference, self.path)
+        })
     }
 
     /// d h / dT of pure component `index` in `phase` at `t_k`, J/(mol·K).
@@ -210,7 +210,14 @@ impl EnthalpyModel {
         };
         let t_ref = self.reference.temperature_k;
         let mut check = |name: &'static str, range: crate::properties::ValidityRange, t: f64| {
-            if !range.contains(t) {
+            if range.contains(t) {
+                return;
+            }
+            let known = out.iter().any(|w| {
+                matches!(w, Warning::CorrelationExtrapolated { component, correlation, .. }
+                    if *correlation == name && component == c.name())
+            });
+            if !known {
                 push_unique(
                     out,
                     Warning::CorrelationExtrapolated {
@@ -254,7 +261,13 @@ fn switch_temperature(c: &Component, t_k: f64, reference: ReferenceState, path: 
 }
 
 /// The split measured from pure liquid at the reference temperature.
-fn from_liquid(c: &Component, phase: Phase, t_k: f64, reference: ReferenceState, path: VaporisationPath) -> EnthalpySplit {
+fn from_liquid(
+    c: &Component,
+    phase: Phase,
+    t_k: f64,
+    reference: ReferenceState,
+    path: VaporisationPath,
+) -> EnthalpySplit {
     let t_ref = reference.temperature_k;
     match phase {
         Phase::Vapour => {

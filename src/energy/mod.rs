@@ -26,8 +26,8 @@
 
 mod enthalpy;
 
-pub use enthalpy::{EnthalpyModel, EnthalpySplit, ReferencePhase, ReferenceState, VaporisationPath};
 use enthalpy::pure_enthalpy;
+pub use enthalpy::{EnthalpyModel, EnthalpySplit, ReferencePhase, ReferenceState, VaporisationPath};
 
 use crate::equilibrium::{
     FlashError, FlashResult, FlashSpec, KValueModel, KValues, Raoult, SEARCH_MAX_TEMPERATURE_K,
@@ -168,7 +168,10 @@ impl Stream {
     ///
     /// # Errors
     /// As [`Stream::from_component_flows`], or [`EnergyError::UnknownComponent`].
-    pub fn from_component_flows_names<S: AsRef<str>>(names: &[S], flows_mol_per_s: &[f64]) -> Result<Self, EnergyError> {
+    pub fn from_component_flows_names<S: AsRef<str>>(
+        names: &[S],
+        flows_mol_per_s: &[f64],
+    ) -> Result<Self, EnergyError> {
         Self::from_component_flows(Library::builtin().get_all(names)?, flows_mol_per_s)
     }
 
@@ -509,7 +512,14 @@ impl<'a> Calc<'a> {
                 1e-10,
             );
             let t = Temperature::new("T", root.x)?;
-            let r = flash(&self.k_model, z, FlashSpec::TemperaturePressure { temperature: t, pressure: p })?;
+            let r = flash(
+                &self.k_model,
+                z,
+                FlashSpec::TemperaturePressure {
+                    temperature: t,
+                    pressure: p,
+                },
+            )?;
             Ok(r)
         };
         if target <= h_bub {
@@ -519,7 +529,15 @@ impl<'a> Calc<'a> {
             return Ok(force_single(r, Phase::Liquid, z));
         }
         let Some(dew) = dew else {
-            return self.two_phase(target, p, bubble.temperature_k, SEARCH_MAX_TEMPERATURE_K, 0.0, 1.0, duty_w);
+            return self.two_phase(
+                target,
+                p,
+                bubble.temperature_k,
+                SEARCH_MAX_TEMPERATURE_K,
+                0.0,
+                1.0,
+                duty_w,
+            );
         };
         let h_dew = self.enthalpy(dew);
         if target >= h_dew {
@@ -537,14 +555,28 @@ impl<'a> Calc<'a> {
     /// Solves on temperature between the bubble and dew points, Newton with the analytic
     /// dH/dT inside the bracket: used where the two-phase region spans more than
     /// [`WIDE_TWO_PHASE_K`], so that temperature pins the vapour fraction down well.
-    fn two_phase_on_temperature(&self, target: f64, p: Pressure, t_bub: f64, t_dew: f64) -> Result<FlashResult, EnergyError> {
+    fn two_phase_on_temperature(
+        &self,
+        target: f64,
+        p: Pressure,
+        t_bub: f64,
+        t_dew: f64,
+    ) -> Result<FlashResult, EnergyError> {
         let z = &self.stream.z;
         let mut failure: Option<EnergyError> = None;
         let root = bracketed_newton(
             |t| match Temperature::new("T", t)
                 .map_err(EnergyError::from)
-                .and_then(|temperature| Ok(flash(&self.k_model, z, FlashSpec::TemperaturePressure { temperature, pressure: p })?))
-            {
+                .and_then(|temperature| {
+                    Ok(flash(
+                        &self.k_model,
+                        z,
+                        FlashSpec::TemperaturePressure {
+                            temperature,
+                            pressure: p,
+                        },
+                    )?)
+                }) {
                 Ok(r) => (self.enthalpy(&r) - target, self.enthalpy_slope(&r)),
                 Err(e) => {
                     failure.get_or_insert(e);
@@ -560,7 +592,14 @@ impl<'a> Calc<'a> {
             return Err(e);
         }
         let temperature = Temperature::new("T", root.x)?;
-        Ok(flash(&self.k_model, z, FlashSpec::TemperaturePressure { temperature, pressure: p })?)
+        Ok(flash(
+            &self.k_model,
+            z,
+            FlashSpec::TemperaturePressure {
+                temperature,
+                pressure: p,
+            },
+        )?)
     }
 
     /// Solves on the vapour fraction between the bubble and dew points: temperature may be
@@ -856,7 +895,13 @@ pub fn heating_curve(
             breakpoint: "",
         });
     }
-    let inside = |q: f64| if total >= 0.0 { q > 0.0 && q < total } else { q < 0.0 && q > total };
+    let inside = |q: f64| {
+        if total >= 0.0 {
+            q > 0.0 && q < total
+        } else {
+            q < 0.0 && q > total
+        }
+    };
     let mut breaks = vec![(&bubble, "bubble", 0.0)];
     if let Some(d) = &dew {
         breaks.push((d, "dew", 1.0));

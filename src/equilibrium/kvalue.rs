@@ -234,7 +234,11 @@ impl KValueModel for Raoult {
             let (ln_pb, slope) = c.vapour_pressure().ln_psat_with_slope(tb);
             let b = slope * tb * tb;
             let inv = 1.0 / tb - (p_pa.ln() - ln_pb) / b;
-            let t = if inv > 0.0 { 1.0 / inv } else { 10.0 * c.critical_temperature_k() };
+            let t = if inv > 0.0 {
+                1.0 / inv
+            } else {
+                10.0 * c.critical_temperature_k()
+            };
             if t.is_finite() && t > 0.0 {
                 lo = lo.min(t);
                 hi = hi.max(t);

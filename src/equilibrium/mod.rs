@@ -236,12 +236,19 @@ pub(crate) fn flash_bracketed<M: KValueModel + ?Sized>(
     }
     let n = model.component_count();
     if z.len() != n {
-        return Err(FlashError::ComponentCount { components: n, z: z.len() });
+        return Err(FlashError::ComponentCount {
+            components: n,
+            z: z.len(),
+        });
     }
     let sum = rachford_rice::validate(z, z)?;
     let z: Vec<f64> = z.iter().map(|v| v / sum).collect();
     // Composition-independent models never read the phase compositions.
-    let start = if model.is_composition_dependent() { z.clone() } else { Vec::new() };
+    let start = if model.is_composition_dependent() {
+        z.clone()
+    } else {
+        Vec::new()
+    };
     let mut solver = Solver {
         model,
         z: &z,
@@ -253,7 +260,11 @@ pub(crate) fn flash_bracketed<M: KValueModel + ?Sized>(
         iterations: 0,
         t_bracket,
     };
-    let rounds = if model.is_composition_dependent() { OUTER_ROUNDS } else { 1 };
+    let rounds = if model.is_composition_dependent() {
+        OUTER_ROUNDS
+    } else {
+        1
+    };
     for _ in 0..rounds {
         let state = solver.solve_frozen(spec)?;
         if !model.is_composition_dependent() {
@@ -277,7 +288,11 @@ pub(crate) fn flash_bracketed<M: KValueModel + ?Sized>(
 
 fn normalised(v: &[f64]) -> Vec<f64> {
     let s: f64 = v.iter().sum();
-    if s > 0.0 { v.iter().map(|x| x / s).collect() } else { v.to_vec() }
+    if s > 0.0 {
+        v.iter().map(|x| x / s).collect()
+    } else {
+        v.to_vec()
+    }
 }
 
 fn max_change(a: &[f64], b: &[f64]) -> f64 {

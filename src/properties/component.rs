@@ -24,7 +24,9 @@ pub enum ComponentError {
         why: String,
     },
     /// A source key that the file's bibliography does not define.
-    #[error("component '{component}': field '{field}' cites source '{source_key}', which the file's 'sources' does not define")]
+    #[error(
+        "component '{component}': field '{field}' cites source '{source_key}', which the file's 'sources' does not define"
+    )]
     UnknownSource {
         /// The component's name.
         component: String,
@@ -340,7 +342,12 @@ fn heat_capacity(component: &str, field: &str, r: &HeatCapacityRecord) -> Result
             c[..coefficients.len()].copy_from_slice(coefficients);
             let rng = range(component, &format!("{field}.T_min_K/T_max_K"), *t_min_k, *t_max_k)?;
             HeatCapacityModel::Polynomial(PolynomialCp::new(c, rng).ok_or_else(|| {
-                invalid(component, &format!("{field}.coefficients"), format!("{coefficients:?}"), "not finite")
+                invalid(
+                    component,
+                    &format!("{field}.coefficients"),
+                    format!("{coefficients:?}"),
+                    "not finite",
+                )
             })?)
         }
         HeatCapacityRecord::Shomate {
@@ -452,15 +459,19 @@ impl Component {
             } => {
                 let rng = range(n, "vapour_pressure.T_min_K/T_max_K", *t_min_k, *t_max_k)?;
                 VapourPressureModel::Extended(
-                    ExtendedAntoine::new(*a, *b, *c, *d, *e, rng).ok_or_else(|| {
-                        invalid(n, "vapour_pressure", format!("{:?}", [a, b, c, d, e]), "not finite")
-                    })?,
+                    ExtendedAntoine::new(*a, *b, *c, *d, *e, rng)
+                        .ok_or_else(|| invalid(n, "vapour_pressure", format!("{:?}", [a, b, c, d, e]), "not finite"))?,
                 )
             }
         };
         // The vapour pressure must rise with temperature at the boiling point.
         if !(vapour_pressure.dln_psat_dt(tb) > 0.0 && vapour_pressure.psat_pa(tb).is_finite()) {
-            return Err(invalid(n, "vapour_pressure", tb, "does not rise with temperature at the boiling point"));
+            return Err(invalid(
+                n,
+                "vapour_pressure",
+                tb,
+                "does not rise with temperature at the boiling point",
+            ));
         }
         let liquid_cp = heat_capacity(n, "liquid_heat_capacity", &record.liquid_heat_capacity)?;
         let vapour_cp = heat_capacity(n, "vapour_heat_capacity", &record.vapour_heat_capacity)?;
@@ -470,14 +481,16 @@ impl Component {
                 value_j_per_mol,
                 exponent,
                 ..
-            } => LatentHeatModel::Watson(Watson::new(*t_anchor_k, *value_j_per_mol, tc, *exponent).ok_or_else(|| {
-                invalid(
-                    n,
-                    "latent_heat",
-                    format!("T_anchor_K={t_anchor_k}, value_J_per_mol={value_j_per_mol}, exponent={exponent:?}"),
-                    "anchor must lie below Tc with a positive value; exponent in (0, 1]",
-                )
-            })?),
+            } => LatentHeatModel::Watson(Watson::new(*t_anchor_k, *value_j_per_mol, tc, *exponent).ok_or_else(
+                || {
+                    invalid(
+                        n,
+                        "latent_heat",
+                        format!("T_anchor_K={t_anchor_k}, value_J_per_mol={value_j_per_mol}, exponent={exponent:?}"),
+                        "anchor must lie below Tc with a positive value; exponent in (0, 1]",
+                    )
+                },
+            )?),
             LatentHeatRecord::Dippr106 {
                 a_j_per_mol,
                 b,
@@ -495,32 +508,64 @@ impl Component {
                 // hundredths of a kelvin at most and is kept for the record only.
                 if let Some(t) = tc_k {
                     if !(t.is_finite() && (t - tc).abs() <= 1.0) {
-                        return Err(invalid(n, "latent_heat.Tc_K", t, "must lie within 1 K of the component's Tc"));
+                        return Err(invalid(
+                            n,
+                            "latent_heat.Tc_K",
+                            t,
+                            "must lie within 1 K of the component's Tc",
+                        ));
                     }
                 }
                 let tc_fit = tc;
                 LatentHeatModel::Dippr106(Dippr106::new([*a_j_per_mol, *b, *c, *d, *e], tc_fit, rng).ok_or_else(
-                    || invalid(n, "latent_heat", format!("A={a_j_per_mol}"), "constants must be finite, A positive"),
+                    || {
+                        invalid(
+                            n,
+                            "latent_heat",
+                            format!("A={a_j_per_mol}"),
+                            "constants must be finite, A positive",
+                        )
+                    },
                 )?)
             }
         };
-        for (field, model) in [("liquid_heat_capacity", &liquid_cp), ("vapour_heat_capacity", &vapour_cp)] {
+        for (field, model) in [
+            ("liquid_heat_capacity", &liquid_cp),
+            ("vapour_heat_capacity", &vapour_cp),
+        ] {
             let mid = 0.5 * (model.validity().min_k + model.validity().max_k.min(2.0 * tc));
             if model.cp(mid).partial_cmp(&0.0) != Some(std::cmp::Ordering::Greater) {
                 return Err(invalid(n, field, mid, "heat capacity is not positive inside its range"));
             }
         }
         if latent_heat.latent_heat(tb).partial_cmp(&0.0) != Some(std::cmp::Ordering::Greater) {
-            return Err(invalid(n, "latent_heat", tb, "latent heat is not positive at the boiling point"));
+            return Err(invalid(
+                n,
+                "latent_heat",
+                tb,
+                "latent heat is not positive at the boiling point",
+            ));
         }
 
         // Every source key must resolve.
         let mut provenance = vec![
-            ("molar_mass_g_per_mol".to_string(), record.molar_mass_g_per_mol.provenance()),
-            ("critical_temperature_K".to_string(), record.critical_temperature_k.provenance()),
-            ("critical_pressure_Pa".to_string(), record.critical_pressure_pa.provenance()),
+            (
+                "molar_mass_g_per_mol".to_string(),
+                record.molar_mass_g_per_mol.provenance(),
+            ),
+            (
+                "critical_temperature_K".to_string(),
+                record.critical_temperature_k.provenance(),
+            ),
+            (
+                "critical_pressure_Pa".to_string(),
+                record.critical_pressure_pa.provenance(),
+            ),
             ("acentric_factor".to_string(), record.acentric_factor.provenance()),
-            ("normal_boiling_point_K".to_string(), record.normal_boiling_point_k.provenance()),
+            (
+                "normal_boiling_point_K".to_string(),
+                record.normal_boiling_point_k.provenance(),
+            ),
         ];
         let vp = match &record.vapour_pressure {
             VapourPressureRecord::Antoine { provenance, .. } | VapourPressureRecord::Extended { provenance, .. } => {

@@ -104,10 +104,7 @@ impl PolynomialCp {
         coefficients
             .iter()
             .all(|c| c.is_finite())
-            .then_some(Self {
-                coefficients,
-                range,
-            })
+            .then_some(Self { coefficients, range })
     }
 
     /// The coefficients a, b, c, d, e.
@@ -198,11 +195,7 @@ impl HeatCapacity for ShomateCp {
         let (t1, t2) = (t1_k / 1000.0, t2_k / 1000.0);
         let p = power_integrals(t1, t2);
         // ∫ E/t³ dt = E/2 (1/t1² − 1/t2²) = E (t2 − t1)(t2 + t1) / (2 t1² t2²).
-        a * ln_ratio(t1, t2)
-            + b * p[0]
-            + c * p[1]
-            + d * p[2]
-            + e * (t2 - t1) * (t2 + t1) / (2.0 * t1 * t1 * t2 * t2)
+        a * ln_ratio(t1, t2) + b * p[0] + c * p[1] + d * p[2] + e * (t2 - t1) * (t2 + t1) / (2.0 * t1 * t1 * t2 * t2)
     }
 
     fn validity(&self) -> ValidityRange {

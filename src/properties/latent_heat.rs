@@ -224,7 +224,12 @@ mod tests {
     #[test]
     fn slopes_match_finite_differences() {
         let w = Watson::new(353.24, 30_720.0, 562.05, None).unwrap();
-        let d = Dippr106::new([52_053.0, 0.3199, -0.212, 0.25795, 0.0], 647.13, ValidityRange::UNBOUNDED).unwrap();
+        let d = Dippr106::new(
+            [52_053.0, 0.3199, -0.212, 0.25795, 0.0],
+            647.13,
+            ValidityRange::UNBOUNDED,
+        )
+        .unwrap();
         for (m, t) in [(&w as &dyn LatentHeat, 300.0), (&w, 500.0), (&d, 300.0), (&d, 600.0)] {
             let h = 1e-4;
             let fd = (m.latent_heat(t + h) - m.latent_heat(t - h)) / (2.0 * h);
@@ -235,7 +240,12 @@ mod tests {
 
     #[test]
     fn zero_at_and_above_critical() {
-        let d = Dippr106::new([52_053.0, 0.3199, -0.212, 0.25795, 0.0], 647.13, ValidityRange::UNBOUNDED).unwrap();
+        let d = Dippr106::new(
+            [52_053.0, 0.3199, -0.212, 0.25795, 0.0],
+            647.13,
+            ValidityRange::UNBOUNDED,
+        )
+        .unwrap();
         assert_eq!(d.latent_heat(647.13), 0.0);
         assert_eq!(d.latent_heat(700.0), 0.0);
         let w = Watson::new(353.24, 30_720.0, 562.05, None).unwrap();

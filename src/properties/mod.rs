@@ -14,9 +14,7 @@ mod vapour_pressure;
 pub use component::{Component, ComponentError, Provenance, Sourced};
 pub use heat_capacity::{ConstantCp, HeatCapacity, HeatCapacityModel, PolynomialCp, ShomateCp};
 pub use latent_heat::{Dippr106, LatentHeat, LatentHeatModel, Watson};
-pub use vapour_pressure::{
-    Antoine, AntoineForm, ExtendedAntoine, VapourPressure, VapourPressureModel,
-};
+pub use vapour_pressure::{Antoine, AntoineForm, ExtendedAntoine, VapourPressure, VapourPressureModel};
 
 use serde::{Deserialize, Serialize};
 
@@ -40,8 +38,7 @@ impl ValidityRange {
     /// A range from `min_k` to `max_k`; `None` unless both are finite, positive and
     /// `min_k <= max_k`.
     pub fn new(min_k: f64, max_k: f64) -> Option<Self> {
-        (min_k.is_finite() && max_k.is_finite() && min_k > 0.0 && min_k <= max_k)
-            .then_some(Self { min_k, max_k })
+        (min_k.is_finite() && max_k.is_finite() && min_k > 0.0 && min_k <= max_k).then_some(Self { min_k, max_k })
     }
 
     /// A range that contains every positive temperature (for models with no stated limit).

@@ -110,9 +110,7 @@ impl Antoine {
         let ln10 = std::f64::consts::LN_10;
         let (a, b, c) = match form {
             AntoineForm::Log10BarKelvin => (1e5f64.ln() + ln10 * a, ln10 * b, c),
-            AntoineForm::Log10MmHgCelsius => {
-                (crate::units::MMHG_PA.ln() + ln10 * a, ln10 * b, c - 273.15)
-            }
+            AntoineForm::Log10MmHgCelsius => (crate::units::MMHG_PA.ln() + ln10 * a, ln10 * b, c - 273.15),
             AntoineForm::LnPascalKelvin => (a, b, c),
             AntoineForm::Log10KiloPascalCelsius => (1e3f64.ln() + ln10 * a, ln10 * b, c - 273.15),
         };
