@@ -274,8 +274,14 @@ impl Library {
     }
 }
 
-/// Levenshtein distance over characters.
-fn edit_distance(a: &str, b: &str) -> usize {
+/// The Levenshtein edit distance between two strings, counted in characters: the fewest
+/// insertions, deletions and substitutions that turn `a` into `b`. Used for "did you mean"
+/// suggestions.
+///
+/// ```
+/// assert_eq!(flashduty::library::edit_distance("tolune", "toluene"), 1);
+/// ```
+pub fn edit_distance(a: &str, b: &str) -> usize {
     let b: Vec<char> = b.chars().collect();
     let mut prev: Vec<usize> = (0..=b.len()).collect();
     let mut cur = vec![0; b.len() + 1];

@@ -15,8 +15,9 @@
 //!   Rachford–Rice equation*).** F(½) decides whether the root lies in (0, ½] or [½, 1).
 //!   In the second case the unknown becomes the liquid fraction γ = 1 − β, and the
 //!   denominators are written Kᵢ + γ(1 − Kᵢ). Either way the unknown s lies in (0, ½] and
-//!   every denominator is a sum without cancellation, so β *and* 1 − β, x and y keep full
-//!   relative precision as β → 0, β → 1 and Kᵢ → 0. Both fractions are returned.
+//!   every denominator is a sum without cancellation: no precision is lost in forming
+//!   1 − β, x or y as β → 0, β → 1 or Kᵢ → 0, and both fractions are returned. What remains
+//!   is the conditioning of the equation itself (below).
 //! * **Window.** The root is bracketed by the Leibovici & Neoschil (1992) bounds
 //!   (from xᵢ ≤ 1 and yᵢ ≤ 1), intersected with (0, ½].
 //! * **Iteration.** Newton on H(s) = (s − s₋)(s₊ − s)·G(s), where G is the oriented
@@ -28,10 +29,14 @@
 //!   floating-point numbers takes over, which reaches adjacent floats in at most 64 steps:
 //!   the solver always stops, and it never returns NaN.
 //!
-//! Pros: exact to round-off at the phase boundaries and for K spanning 1e-15 to 1e15;
-//! three to four iterations on typical feeds; no allocation in [`solve_into`].
-//! Cons: the accuracy of β is limited by the conditioning of the equation itself: when every
-//! K lies within δ of 1, β is only known to about 1e-16/δ.
+//! Pros: β, 1 − β, x and y to within a few units of round-off of the exact root of the
+//! given f64 inputs, also at the phase boundaries and for K spanning 1e-15 to 1e15 (checked
+//! against a 200-bit reference on 10,000 feeds); three to four iterations on typical feeds;
+//! no allocation in [`solve_into`].
+//! Cons: the accuracy is limited by the conditioning of the equation itself. The absolute
+//! error of β is about ε·Σ|zᵢ(Kᵢ − 1)/dᵢ| / |F′(β)|: when every K lies within δ of 1, β is
+//! only known to about 1e-16/δ, and a root within 1e-12 of 0 or 1 is known to about 1e-16
+//! absolute, not relative, because F(0) itself is a cancelling sum.
 //!
 //! # Failures
 //! [`RachfordRiceError`]: [`Empty`](RachfordRiceError::Empty),

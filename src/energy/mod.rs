@@ -511,16 +511,7 @@ impl<'a> Calc<'a> {
                 0.5 * (lo + hi),
                 1e-10,
             );
-            let t = Temperature::new("T", root.x)?;
-            let r = flash(
-                &self.k_model,
-                z,
-                FlashSpec::TemperaturePressure {
-                    temperature: t,
-                    pressure: p,
-                },
-            )?;
-            Ok(r)
+            self.tp_flash(root.x, p)
         };
         if target <= h_bub {
             let tb = bubble.temperature_k;
@@ -562,21 +553,9 @@ impl<'a> Calc<'a> {
         t_bub: f64,
         t_dew: f64,
     ) -> Result<FlashResult, EnergyError> {
-        let z = &self.stream.z;
         let mut failure: Option<EnergyError> = None;
         let root = bracketed_newton(
-            |t| match Temperature::new("T", t)
-                .map_err(EnergyError::from)
-                .and_then(|temperature| {
-                    Ok(flash(
-                        &self.k_model,
-                        z,
-                        FlashSpec::TemperaturePressure {
-                            temperature,
-                            pressure: p,
-                        },
-                    )?)
-                }) {
+            |t| match self.tp_flash(t, p) {
                 Ok(r) => (self.enthalpy(&r) - target, self.enthalpy_slope(&r)),
                 Err(e) => {
                     failure.get_or_insert(e);
@@ -591,15 +570,16 @@ impl<'a> Calc<'a> {
         if let Some(e) = failure {
             return Err(e);
         }
-        let temperature = Temperature::new("T", root.x)?;
-        Ok(flash(
-            &self.k_model,
-            z,
-            FlashSpec::TemperaturePressure {
-                temperature,
-                pressure: p,
-            },
-        )?)
+        self.tp_flash(root.x, p)
+    }
+
+    /// The T–P flash of the stream at `t_k` and `p`.
+    fn tp_flash(&self, t_k: f64, p: Pressure) -> Result<FlashResult, EnergyError> {
+        let spec = FlashSpec::TemperaturePressure {
+            temperature: Temperature::new("T", t_k)?,
+            pressure: p,
+        };
+        Ok(flash(&self.k_model, &self.stream.z, spec)?)
     }
 
     /// Solves on the vapour fraction between the bubble and dew points: temperature may be

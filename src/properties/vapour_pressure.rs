@@ -185,7 +185,14 @@ impl ExtendedAntoine {
 impl ExtendedAntoine {
     #[inline]
     fn raw(&self, t_k: f64) -> (f64, f64) {
-        let dte = self.d * t_k.powf(self.e);
+        // Published exponents are almost always small integers (1, 2, 6): powi is exact
+        // there and several times cheaper than powf.
+        let power = if self.e == self.e.trunc() && self.e.abs() <= 16.0 {
+            t_k.powi(self.e as i32)
+        } else {
+            t_k.powf(self.e)
+        };
+        let dte = self.d * power;
         let ln_p = self.a + self.b / t_k + self.c * t_k.ln() + dte;
         let slope = -self.b / (t_k * t_k) + self.c / t_k + self.e * dte / t_k;
         (ln_p, slope)

@@ -349,21 +349,7 @@ pub fn suggest_key(key: &str, known: &[&str]) -> Option<String> {
     best.filter(|(d, _)| *d <= limit).map(|(_, k)| k.to_string())
 }
 
-/// Levenshtein distance over characters.
-pub fn edit_distance(a: &str, b: &str) -> usize {
-    let b: Vec<char> = b.chars().collect();
-    let mut prev: Vec<usize> = (0..=b.len()).collect();
-    let mut cur = vec![0; b.len() + 1];
-    for (i, ca) in a.chars().enumerate() {
-        cur[0] = i + 1;
-        for (j, cb) in b.iter().enumerate() {
-            let sub = prev[j] + usize::from(ca != *cb);
-            cur[j + 1] = sub.min(prev[j + 1] + 1).min(cur[j] + 1);
-        }
-        std::mem::swap(&mut prev, &mut cur);
-    }
-    prev[b.len()]
-}
+pub use flashduty::library::edit_distance;
 
 fn unknown_key(prefix: &str, key: &str, known: &[&str]) -> CliError {
     let full = format!("{prefix}{key}");
