@@ -202,6 +202,12 @@ pub struct PhaseSplit {
 /// # Errors
 /// Every [`RachfordRiceError`] variant.
 pub fn validate(z: &[f64], k: &[f64]) -> Result<f64, RachfordRiceError> {
+    validated(z, k).map(|(sum, _)| sum)
+}
+
+/// [`validate`], also returning Σ zᵢ(Kᵢ − 1) of the raw z (so the solver's phase test costs
+/// no extra pass).
+fn validated(z: &[f64], k: &[f64]) -> Result<(f64, f64), RachfordRiceError> {
     if z.is_empty() {
         return Err(RachfordRiceError::Empty);
     }
@@ -211,7 +217,7 @@ pub fn validate(z: &[f64], k: &[f64]) -> Result<f64, RachfordRiceError> {
             k_len: k.len(),
         });
     }
-    let mut sum = 0.0;
+    let (mut sum, mut f0) = (0.0, 0.0);
     for (index, (&zi, &ki)) in z.iter().zip(k).enumerate() {
         if !zi.is_finite() {
             return Err(RachfordRiceError::NotFinite {
@@ -234,11 +240,12 @@ pub fn validate(z: &[f64], k: &[f64]) -> Result<f64, RachfordRiceError> {
             return Err(RachfordRiceError::NegativeKValue { index, value: ki });
         }
         sum += zi;
+        f0 += zi * (ki - 1.0);
     }
     if (sum - 1.0).abs() > MOLE_FRACTION_SUM_TOLERANCE {
         return Err(RachfordRiceError::MoleFractionSum { sum });
     }
-    Ok(sum)
+    Ok((sum, f0))
 }
 
 /// Solves the Rachford–Rice equation, allocating x and y.
@@ -294,7 +301,7 @@ pub fn solve_into(
     x: &mut [f64],
     y: &mut [f64],
 ) -> Result<SplitSummary, RachfordRiceError> {
-    let sum = validate(z, k)?;
+    let (sum, f0_raw) = validated(z, k)?;
     if x.len() != z.len() || y.len() != z.len() {
         return Err(RachfordRiceError::LengthMismatch {
             z_len: z.len(),
@@ -305,11 +312,8 @@ pub fn solve_into(
     let zn = |i: usize| z[i] * inv_sum;
     let n = z.len();
 
-    // Phase tests. F(0) needs no division.
-    let mut f0 = 0.0;
-    for (i, &ki) in k.iter().enumerate() {
-        f0 += zn(i) * (ki - 1.0);
-    }
+    // Phase tests. F(0) came with the validation pass.
+    let f0 = f0_raw * inv_sum;
     let mut evaluations = 1;
     let liquid = |x: &mut [f64], y: &mut [f64], evaluations| {
         for i in 0..n {
@@ -332,50 +336,58 @@ pub fn solve_into(
         }
         return Ok(liquid(x, y, evaluations));
     }
-    // F(1), and with it F(½), F'(½) and Σ|terms of F(½)| (used only for a two-phase feed:
-    // they choose the orientation and give the first Newton step for free).
-    let (mut f1, mut f_half, mut df_half, mut scale_half) = (0.0, 0.0, 0.0, 0.0);
-    for (i, &ki) in k.iter().enumerate() {
+    // F(½), F'(½) and Σ|terms of F(½)|: they choose the orientation and give the first
+    // Newton step for free. F is decreasing between its poles, which lie outside [0, 1], so
+    // F(½) < 0 rules out an all-vapour feed and F(1) is needed only when F(½) >= 0.
+    let (mut f_half, mut df_half, mut scale_half) = (0.0, 0.0, 0.0);
+    for (&zi, &ki) in z.iter().zip(k) {
         let t = ki - 1.0;
-        let zi = zn(i);
-        if zi > 0.0 {
-            f1 += zi * t / ki;
-        }
         let r = t / (1.0 + 0.5 * t);
-        let term = zi * r;
+        let term = zi * inv_sum * r;
         f_half += term;
         df_half -= term * r;
         scale_half += term.abs();
     }
     evaluations += 1;
-    if f1 >= 0.0 {
-        if options.negative_flash {
-            if let Some(s) = negative_root(z, k, inv_sum, Orientation::Vapour, x, y) {
-                return Ok(s);
+    if f_half >= 0.0 {
+        let mut f1 = 0.0;
+        for (&zi, &ki) in z.iter().zip(k) {
+            if zi > 0.0 {
+                f1 += zi * inv_sum * (ki - 1.0) / ki;
             }
         }
-        for i in 0..n {
-            y[i] = zn(i);
-            // A component with zᵢ = 0 has xᵢ = 0 (0/0 when also Kᵢ = 0).
-            x[i] = if y[i] == 0.0 { 0.0 } else { y[i] / k[i] };
+        evaluations += 1;
+        if f1 >= 0.0 {
+            if options.negative_flash {
+                if let Some(s) = negative_root(z, k, inv_sum, Orientation::Vapour, x, y) {
+                    return Ok(s);
+                }
+            }
+            for i in 0..n {
+                y[i] = zn(i);
+                // A component with zᵢ = 0 has xᵢ = 0 (0/0 when also Kᵢ = 0).
+                x[i] = if y[i] == 0.0 { 0.0 } else { y[i] / k[i] };
+            }
+            return Ok(SplitSummary {
+                phase: Phase::Vapour,
+                vapour_fraction: 1.0,
+                liquid_fraction: 0.0,
+                iterations: 0,
+                evaluations,
+            });
         }
-        return Ok(SplitSummary {
-            phase: Phase::Vapour,
-            vapour_fraction: 1.0,
-            liquid_fraction: 0.0,
-            iterations: 0,
-            evaluations,
-        });
     }
 
     // Two phases. F(½) chooses the orientation: G(s) = F(β) with s = β, or −F(β) with s = 1 − β.
-    evaluations += 1;
     let orientation = if f_half < 0.0 {
         Orientation::Liquid
     } else {
         Orientation::Vapour
     };
-    let problem = Oriented::new(z, k, inv_sum, orientation);
+    let (problem, (ln_lo, ln_hi)) = match orientation {
+        Orientation::Liquid => Oriented::with_window::<true>(z, k, inv_sum),
+        Orientation::Vapour => Oriented::with_window::<false>(z, k, inv_sum),
+    };
     if f_half == 0.0 {
         let s = 0.5;
         problem.write(s, x, y);
@@ -383,7 +395,6 @@ pub fn solve_into(
     }
 
     // Bracket: (0, ½] intersected with the Leibovici–Neoschil window.
-    let (ln_lo, ln_hi) = problem.window();
     let mut lo = ln_lo.max(0.0);
     let mut hi = ln_hi.min(0.5);
     if lo >= hi {
@@ -532,6 +543,73 @@ impl<'a> Oriented<'a> {
         me
     }
 
+    /// [`new`](Self::new) and the Leibovici–Neoschil bounds on s (from xᵢ ≤ 1 and yᵢ ≤ 1) in
+    /// one pass, with the orientation fixed at compile time: the two-phase path's set-up.
+    ///
+    /// Each bound is widened by its round-off, (2n + 8)ε times the size of the terms of its
+    /// numerator: the normalised zᵢ sum to 1 only within about nε, and 1 − zᵢ or Kzᵢ − 1
+    /// cancel. Without the margin a bound can land on the wrong side of a root that lies
+    /// within round-off of it (a binary with one K = 0 has its root exactly on the bound).
+    fn with_window<const LIQUID: bool>(z: &'a [f64], k: &'a [f64], inv_sum: f64) -> (Self, (f64, f64)) {
+        let orientation = if LIQUID {
+            Orientation::Liquid
+        } else {
+            Orientation::Vapour
+        };
+        let (mut lo, mut hi) = (f64::NEG_INFINITY, f64::INFINITY);
+        let u = (2.0 * z.len() as f64 + 8.0) * f64::EPSILON;
+        // Nearest poles as in `new`: from the largest positive and the most negative a, the
+        // poles themselves settling ties.
+        let pole = |p: f64, a: f64| -p / a;
+        let (mut lo_pa, mut hi_pa) = ((0.0, 0.0), (0.0, 0.0));
+        for (&zr, &k) in z.iter().zip(k) {
+            let zi = zr * inv_sum;
+            if zi == 0.0 {
+                continue;
+            }
+            let (p, a) = if LIQUID { (1.0, k - 1.0) } else { (k, 1.0 - k) };
+            if a > 0.0 {
+                if a > lo_pa.1 || (a == lo_pa.1 && pole(p, a) > pole(lo_pa.0, lo_pa.1)) {
+                    lo_pa = (p, a);
+                }
+                // Liquid: K > 1, from yᵢ <= 1. Vapour: K < 1, from xᵢ <= 1.
+                let bound = if LIQUID {
+                    (k * zi - 1.0 - u * (1.0 + k * zi)) / a
+                } else {
+                    (zi - k - u * (zi + k)) / a
+                };
+                lo = lo.max(bound);
+            } else if a < 0.0 {
+                if a < hi_pa.1 || (a == hi_pa.1 && pole(p, a) < pole(hi_pa.0, hi_pa.1)) {
+                    hi_pa = (p, a);
+                }
+                let bound = if LIQUID {
+                    (1.0 - zi + u * (1.0 + zi)) / -a
+                } else {
+                    (1.0 - zi + u * (1.0 + zi)) * k / -a
+                };
+                hi = hi.min(bound);
+            }
+        }
+        let me = Self {
+            z,
+            k,
+            inv_sum,
+            orientation,
+            pole_lo: if lo_pa.1 > 0.0 {
+                pole(lo_pa.0, lo_pa.1)
+            } else {
+                f64::NEG_INFINITY
+            },
+            pole_hi: if hi_pa.1 < 0.0 {
+                pole(hi_pa.0, hi_pa.1)
+            } else {
+                f64::INFINITY
+            },
+        };
+        (me, (lo, hi))
+    }
+
     #[inline]
     fn coefficients(&self, i: usize) -> (f64, f64) {
         let k = self.k[i];
@@ -539,41 +617,6 @@ impl<'a> Oriented<'a> {
             Orientation::Liquid => (1.0, k - 1.0),
             Orientation::Vapour => (k, 1.0 - k),
         }
-    }
-
-    /// The Leibovici–Neoschil bounds on s, from xᵢ ≤ 1 and yᵢ ≤ 1.
-    ///
-    /// Each bound is widened by its round-off, (2n + 8)ε times the size of the terms of its
-    /// numerator: the normalised zᵢ sum to 1 only within about nε, and 1 − zᵢ or Kzᵢ − 1
-    /// cancel. Without the margin a bound can land on the wrong side of a root that lies
-    /// within round-off of it (a binary with one K = 0 has its root exactly on the bound).
-    fn window(&self) -> (f64, f64) {
-        let (mut lo, mut hi) = (f64::NEG_INFINITY, f64::INFINITY);
-        let u = (2.0 * self.z.len() as f64 + 8.0) * f64::EPSILON;
-        for i in 0..self.z.len() {
-            let zi = self.z[i] * self.inv_sum;
-            if zi == 0.0 {
-                continue;
-            }
-            let k = self.k[i];
-            match self.orientation {
-                Orientation::Liquid => {
-                    if k > 1.0 {
-                        lo = lo.max((k * zi - 1.0 - u * (1.0 + k * zi)) / (k - 1.0));
-                    } else if k < 1.0 {
-                        hi = hi.min((1.0 - zi + u * (1.0 + zi)) / (1.0 - k));
-                    }
-                }
-                Orientation::Vapour => {
-                    if k < 1.0 {
-                        lo = lo.max((zi - k - u * (zi + k)) / (1.0 - k));
-                    } else if k > 1.0 {
-                        hi = hi.min((1.0 - zi + u * (1.0 + zi)) * k / (k - 1.0));
-                    }
-                }
-            }
-        }
-        (lo, hi)
     }
 
     /// G(s), G'(s) and Σ|terms of G|, the scale of the round-off in G.
@@ -601,13 +644,19 @@ impl<'a> Oriented<'a> {
     }
 
     fn write(&self, s: f64, x: &mut [f64], y: &mut [f64]) {
-        for (i, (xi, yi)) in x.iter_mut().zip(y.iter_mut()).enumerate() {
-            let (p, a) = self.coefficients(i);
-            let d = p + s * a;
-            let zi = self.z[i] * self.inv_sum;
+        match self.orientation {
+            Orientation::Liquid => self.write_in::<true>(s, x, y),
+            Orientation::Vapour => self.write_in::<false>(s, x, y),
+        }
+    }
+
+    fn write_in<const LIQUID: bool>(&self, s: f64, x: &mut [f64], y: &mut [f64]) {
+        for (((xi, yi), &z), &k) in x.iter_mut().zip(y.iter_mut()).zip(self.z).zip(self.k) {
+            let (p, a) = if LIQUID { (1.0, k - 1.0) } else { (k, 1.0 - k) };
+            let zi = z * self.inv_sum;
             // d > 0 inside the window; a zero-feed component has x = y = 0.
-            *xi = if zi == 0.0 { 0.0 } else { zi / d };
-            *yi = self.k[i] * *xi;
+            *xi = if zi == 0.0 { 0.0 } else { zi / (p + s * a) };
+            *yi = k * *xi;
         }
     }
 
