@@ -242,16 +242,23 @@ pub(crate) fn flash_bracketed<M: KValueModel + ?Sized>(
         });
     }
     let sum = rachford_rice::validate(z, z)?;
-    let z: Vec<f64> = z.iter().map(|v| v / sum).collect();
+    // Normalise z, copying it only when that changes it.
+    let normalised_z: Vec<f64>;
+    let z: &[f64] = if sum == 1.0 {
+        z
+    } else {
+        normalised_z = z.iter().map(|v| v / sum).collect();
+        &normalised_z
+    };
     // Composition-independent models never read the phase compositions.
     let start = if model.is_composition_dependent() {
-        z.clone()
+        z.to_vec()
     } else {
         Vec::new()
     };
     let mut solver = Solver {
         model,
-        z: &z,
+        z,
         kv: KValues::new(n),
         liquid: start.clone(),
         vapour: start,
@@ -270,8 +277,8 @@ pub(crate) fn flash_bracketed<M: KValueModel + ?Sized>(
         if !model.is_composition_dependent() {
             return Ok(solver.finish(state));
         }
-        let new_liquid = normalised(state.x.as_deref().unwrap_or(&z));
-        let new_vapour = normalised(state.y.as_deref().unwrap_or(&z));
+        let new_liquid = normalised(state.x.as_deref().unwrap_or(z));
+        let new_vapour = normalised(state.y.as_deref().unwrap_or(z));
         let change = max_change(&solver.liquid, &new_liquid).max(max_change(&solver.vapour, &new_vapour));
         solver.liquid = new_liquid;
         solver.vapour = new_vapour;
@@ -717,7 +724,7 @@ impl<M: KValueModel + ?Sized> Solver<'_, M> {
             liquid_fraction: state.liquid_fraction,
             liquid: state.x,
             vapour: state.y,
-            k_values: self.kv.k.clone(),
+            k_values: std::mem::take(&mut self.kv.k),
             iterations: self.iterations,
             evaluations: self.evaluations,
             warnings,
