@@ -225,25 +225,26 @@ impl Library {
     /// The nearest known names to `name` (edit distance), at most three.
     pub fn suggest(&self, name: &str) -> Vec<String> {
         let k = key(name);
-        let mut scored: Vec<(usize, &str)> = self
+        // (rank, edit distance, name): a known name that contains what was typed ranks as
+        // distance 1, and the true edit distance breaks ties.
+        let mut scored: Vec<(usize, usize, &str)> = self
             .index
             .iter()
             .map(|(known, &i)| {
                 let d = edit_distance(&k, known);
-                // A known name that starts with or contains what was typed is a good hint.
-                let d = if !k.is_empty() && known.contains(&k) {
+                let rank = if !k.is_empty() && known.contains(&k) {
                     d.min(1)
                 } else {
                     d
                 };
-                (d, self.components[i].name())
+                (rank, d, self.components[i].name())
             })
             .collect();
         scored.sort();
-        let limit = (k.chars().count() / 2).max(2);
+        let limit = (k.chars().count() / 3).max(2);
         let mut out: Vec<String> = Vec::new();
-        for (d, n) in scored {
-            if d <= limit && !out.iter().any(|o| o == n) {
+        for (rank, _, n) in scored {
+            if rank <= limit && !out.iter().any(|o| o == n) {
                 out.push(n.to_string());
             }
             if out.len() == 3 {
