@@ -135,7 +135,8 @@ pub struct FlashResult {
     pub evaluations: u32,
     /// Warnings at the final state.
     pub warnings: Vec<Warning>,
-    /// dβ/dT and dβ/dP, where the state is two-phase.
+    /// dβ/dT and dβ/dP, where the state is two-phase (`None` also where they overflow, at
+    /// pressures near the smallest float).
     pub sensitivity: Option<Sensitivity>,
 }
 
@@ -700,22 +701,28 @@ impl<M: KValueModel + ?Sized> Solver<'_, M> {
         self.k_at_cached(state.t, state.p);
         let mut warnings = Vec::new();
         self.model.warnings(state.t, state.p, &mut warnings);
-        let sensitivity = (state.phase == Phase::TwoPhase).then(|| {
-            let (beta, lf) = (state.beta, state.liquid_fraction);
-            let (mut f_beta, mut f_t, mut f_p) = (0.0, 0.0, 0.0);
-            for i in 0..self.z.len() {
-                let k = self.kv.k[i];
-                let d = lf + beta * k;
-                let w = self.z[i] / (d * d);
-                f_beta -= w * (k - 1.0) * (k - 1.0);
-                f_t += w * k * self.kv.dln_k_dt[i];
-                f_p += w * k * self.kv.dln_k_dp[i];
-            }
-            Sensitivity {
-                dvapour_fraction_dt_per_k: if f_beta < 0.0 { -f_t / f_beta } else { 0.0 },
-                dvapour_fraction_dp_per_pa: if f_beta < 0.0 { -f_p / f_beta } else { 0.0 },
-            }
-        });
+        let sensitivity = (state.phase == Phase::TwoPhase)
+            .then(|| {
+                let (beta, lf) = (state.beta, state.liquid_fraction);
+                let (mut f_beta, mut f_t, mut f_p) = (0.0, 0.0, 0.0);
+                for i in 0..self.z.len() {
+                    let k = self.kv.k[i];
+                    let d = lf + beta * k;
+                    // zᵢ/dᵢ² times (Kᵢ − 1)² or Kᵢ, written with ratios to d so that huge K
+                    // cannot overflow.
+                    let (zd, q, kd) = (self.z[i] / d, (k - 1.0) / d, k / d);
+                    f_beta -= zd * d * q * q;
+                    f_t += zd * kd * self.kv.dln_k_dt[i];
+                    f_p += zd * kd * self.kv.dln_k_dp[i];
+                }
+                Sensitivity {
+                    dvapour_fraction_dt_per_k: if f_beta < 0.0 { -f_t / f_beta } else { 0.0 },
+                    dvapour_fraction_dp_per_pa: if f_beta < 0.0 { -f_p / f_beta } else { 0.0 },
+                }
+            })
+            // At absurd states (pressures near the smallest float) a derivative can overflow:
+            // then there is none to give.
+            .filter(|s| s.dvapour_fraction_dt_per_k.is_finite() && s.dvapour_fraction_dp_per_pa.is_finite());
         FlashResult {
             phase: state.phase,
             temperature_k: state.t,
