@@ -378,8 +378,16 @@ impl<'a> Calc<'a> {
         total
     }
 
-    fn rows(&self, state: &'static str, r: &FlashResult, out: &mut Vec<EnthalpyRow>, warnings: &mut Vec<Warning>) {
+    /// Appends the state's rows to the table and returns its enthalpy per mole of stream.
+    fn rows(
+        &self,
+        state: &'static str,
+        r: &FlashResult,
+        out: &mut Vec<EnthalpyRow>,
+        warnings: &mut Vec<Warning>,
+    ) -> f64 {
         let flow = self.stream.flow.mol_per_s();
+        let mut total = 0.0;
         for (i, c) in self.stream.components.iter().enumerate() {
             let (l, v) = amounts(r, i, &self.stream.z);
             for (amount, phase) in [(l, Phase::Liquid), (v, Phase::Vapour)] {
@@ -400,17 +408,27 @@ impl<'a> Calc<'a> {
                     vapour_sensible_j_per_mol: split.vapour_sensible_j_per_mol,
                     enthalpy_flow_w: amount * flow * h,
                 });
+                total += amount * h;
             }
         }
+        total
     }
 
     fn flash(&self, state: StreamState) -> Result<FlashResult, EnergyError> {
         Ok(flash(&self.k_model, &self.stream.z, state.spec())?)
     }
 
-    fn path_spread(&self, inlet: &FlashResult, outlet: &FlashResult) -> PathSpread {
+    /// The duty along every path; `selected_duty_w` is the one already known for the
+    /// model's own path.
+    fn path_spread(&self, inlet: &FlashResult, outlet: &FlashResult, selected_duty_w: f64) -> PathSpread {
         let flow = self.stream.flow.mol_per_s();
-        let duty = |path| flow * (self.enthalpy_with(path, outlet) - self.enthalpy_with(path, inlet));
+        let duty = |path| {
+            if path == self.h.path() {
+                selected_duty_w
+            } else {
+                flow * (self.enthalpy_with(path, outlet) - self.enthalpy_with(path, inlet))
+            }
+        };
         let [a, b, c] = VaporisationPath::ALL.map(duty);
         let max = a.max(b).max(c);
         let min = a.min(b).min(c);
@@ -458,19 +476,19 @@ impl<'a> Calc<'a> {
 
     fn result(&self, inlet: FlashResult, outlet: FlashResult, outlet_tp: bool, options: DutyOptions) -> DutyResult {
         let flow = self.stream.flow.mol_per_s();
-        let h_in = self.enthalpy(&inlet);
-        let h_out = self.enthalpy(&outlet);
         let mut table = Vec::with_capacity(4 * self.stream.components.len());
         let mut warnings = Vec::new();
         for w in inlet.warnings.iter().chain(&outlet.warnings) {
             push_unique(&mut warnings, w.clone());
         }
-        self.rows("inlet", &inlet, &mut table, &mut warnings);
-        self.rows("outlet", &outlet, &mut table, &mut warnings);
+        // The table's rows give the stream enthalpies (the same sums as `enthalpy`).
+        let h_in = self.rows("inlet", &inlet, &mut table, &mut warnings);
+        let h_out = self.rows("outlet", &outlet, &mut table, &mut warnings);
+        let duty_w = flow * (h_out - h_in);
         let dq = outlet_tp.then(|| flow * self.enthalpy_slope(&outlet));
-        let spread = self.path_spread(&inlet, &outlet);
+        let spread = self.path_spread(&inlet, &outlet, duty_w);
         DutyResult {
-            duty_w: flow * (h_out - h_in),
+            duty_w,
             flow_mol_s: flow,
             inlet_enthalpy_j_per_mol: h_in,
             outlet_enthalpy_j_per_mol: h_out,
