@@ -556,7 +556,10 @@ impl<'a> Calc<'a> {
         }
         let (t_bub, t_dew) = (bubble.temperature_k, dew.temperature_k);
         if t_dew - t_bub > WIDE_TWO_PHASE_K {
-            return self.two_phase_on_temperature(target, p, t_bub, t_dew);
+            // Start where the enthalpy would be if it ran linearly from bubble to dew point.
+            let fraction = ((target - h_bub) / (h_dew - h_bub)).clamp(0.01, 0.99);
+            let start = t_bub + fraction * (t_dew - t_bub);
+            return self.two_phase_on_temperature(target, p, t_bub, t_dew, start);
         }
         self.two_phase(target, p, t_bub, t_dew, 0.0, 1.0, duty_w)
     }
@@ -570,6 +573,7 @@ impl<'a> Calc<'a> {
         p: Pressure,
         t_bub: f64,
         t_dew: f64,
+        start: f64,
     ) -> Result<FlashResult, EnergyError> {
         let mut failure: Option<EnergyError> = None;
         let root = bracketed_newton(
@@ -582,7 +586,7 @@ impl<'a> Calc<'a> {
             },
             t_bub,
             t_dew,
-            t_bub + (t_dew - t_bub) * 0.5,
+            start,
             1e-12,
         );
         if let Some(e) = failure {
