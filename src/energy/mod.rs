@@ -442,36 +442,45 @@ impl<'a> Calc<'a> {
         }
     }
 
-    /// dH/dT per mole of stream at a T–P state, J/(mol·K), analytic.
-    fn enthalpy_slope(&self, r: &FlashResult) -> f64 {
+    /// The stream enthalpy (J/mol, the same sum as [`Self::enthalpy`]) and its analytic
+    /// derivative dH/dT at constant pressure (J/(mol·K)) at a T–P state.
+    ///
+    /// H = Σ zᵢ hᴸᵢ + Σ vᵢ (hⱽᵢ − hᴸᵢ) with vᵢ = β Kᵢ zᵢ / dᵢ, dᵢ = 1 − β + β Kᵢ, so
+    /// dvᵢ/dT = (zᵢ/dᵢ)(Kᵢ/dᵢ) (dβ/dT + β (1 − β) ∂ln Kᵢ/∂T), with dβ/dT from the flash.
+    fn enthalpy_and_slope(&self, r: &FlashResult) -> (f64, f64) {
         let n = self.stream.components.len();
         let t = r.temperature_k;
-        let mut kv = KValues::new(n);
-        self.k_model.k_values(t, r.pressure_pa, &[], &[], &mut kv);
-        let beta = r.vapour_fraction;
-        let lf = r.liquid_fraction;
-        let dbeta_dt = r.sensitivity.map_or(0.0, |s| s.dvapour_fraction_dt_per_k);
+        let (beta, lf) = (r.vapour_fraction, r.liquid_fraction);
         let two_phase = r.phase == Phase::TwoPhase;
-        let mut slope = 0.0;
+        let mut kv = KValues::new(if two_phase { n } else { 0 });
+        if two_phase {
+            self.k_model.k_values(t, r.pressure_pa, &[], &[], &mut kv);
+        }
+        let dbeta_dt = r.sensitivity.map_or(0.0, |s| s.dvapour_fraction_dt_per_k);
+        let (mut h, mut slope) = (0.0, 0.0);
         for i in 0..n {
             let z = self.stream.z[i];
             if z == 0.0 {
                 continue;
             }
             let (l, v) = amounts(r, i, &self.stream.z);
-            let cl = self.h.pure_slope(i, Phase::Liquid, t);
-            let cv = self.h.pure_slope(i, Phase::Vapour, t);
-            slope += l * cl + v * cv;
-            if two_phase {
+            let h_liquid = (l > 0.0 || two_phase).then(|| self.h.pure(i, Phase::Liquid, t).total_j_per_mol());
+            let h_vapour = (v > 0.0 || two_phase).then(|| self.h.pure(i, Phase::Vapour, t).total_j_per_mol());
+            if l > 0.0 {
+                h += l * h_liquid.unwrap_or(0.0);
+            }
+            if v > 0.0 {
+                h += v * h_vapour.unwrap_or(0.0);
+            }
+            slope += l * self.h.pure_slope(i, Phase::Liquid, t) + v * self.h.pure_slope(i, Phase::Vapour, t);
+            if let (true, Some(hl), Some(hv)) = (two_phase, h_liquid, h_vapour) {
                 let k = r.k_values[i];
                 let d = lf + beta * k;
-                let dv = z * k / (d * d) * dbeta_dt + z * beta * lf * k * kv.dln_k_dt[i] / (d * d);
-                let latent = self.h.pure(i, Phase::Vapour, t).total_j_per_mol()
-                    - self.h.pure(i, Phase::Liquid, t).total_j_per_mol();
-                slope += dv * latent;
+                let dv = (z / d) * (k / d) * (dbeta_dt + beta * lf * kv.dln_k_dt[i]);
+                slope += dv * (hv - hl);
             }
         }
-        slope
+        (h, slope)
     }
 
     fn result(&self, inlet: FlashResult, outlet: FlashResult, outlet_tp: bool, options: DutyOptions) -> DutyResult {
@@ -485,7 +494,7 @@ impl<'a> Calc<'a> {
         let h_in = self.rows("inlet", &inlet, &mut table, &mut warnings);
         let h_out = self.rows("outlet", &outlet, &mut table, &mut warnings);
         let duty_w = flow * (h_out - h_in);
-        let dq = outlet_tp.then(|| flow * self.enthalpy_slope(&outlet));
+        let dq = outlet_tp.then(|| flow * self.enthalpy_and_slope(&outlet).1);
         let spread = self.path_spread(&inlet, &outlet, duty_w);
         DutyResult {
             duty_w,
@@ -578,7 +587,10 @@ impl<'a> Calc<'a> {
         let mut failure: Option<EnergyError> = None;
         let root = bracketed_newton(
             |t| match self.tp_flash(t, p) {
-                Ok(r) => (self.enthalpy(&r) - target, self.enthalpy_slope(&r)),
+                Ok(r) => {
+                    let (h, slope) = self.enthalpy_and_slope(&r);
+                    (h - target, slope)
+                }
                 Err(e) => {
                     failure.get_or_insert(e);
                     (0.0, 1.0)
