@@ -547,15 +547,7 @@ impl<'a> Calc<'a> {
             return Ok(force_single(r, Phase::Liquid, z));
         }
         let Some(dew) = dew else {
-            return self.two_phase(
-                target,
-                p,
-                bubble.temperature_k,
-                SEARCH_MAX_TEMPERATURE_K,
-                0.0,
-                1.0,
-                duty_w,
-            );
+            return self.two_phase(target, p, bubble.temperature_k, SEARCH_MAX_TEMPERATURE_K);
         };
         let h_dew = self.enthalpy(dew);
         if target >= h_dew {
@@ -570,7 +562,7 @@ impl<'a> Calc<'a> {
             let start = t_bub + fraction * (t_dew - t_bub);
             return self.two_phase_on_temperature(target, p, t_bub, t_dew, start);
         }
-        self.two_phase(target, p, t_bub, t_dew, 0.0, 1.0, duty_w)
+        self.two_phase(target, p, t_bub, t_dew)
     }
 
     /// Solves on temperature between the bubble and dew points, Newton with the analytic
@@ -618,17 +610,8 @@ impl<'a> Calc<'a> {
 
     /// Solves on the vapour fraction between the bubble and dew points: temperature may be
     /// flat there (pure components, azeotrope-like narrow boilers), vapour fraction never is.
-    #[allow(clippy::too_many_arguments)]
-    fn two_phase(
-        &self,
-        target: f64,
-        p: Pressure,
-        t_bub: f64,
-        t_dew: f64,
-        lo: f64,
-        hi: f64,
-        duty_w: f64,
-    ) -> Result<FlashResult, EnergyError> {
+    fn two_phase(&self, target: f64, p: Pressure, t_bub: f64, t_dew: f64) -> Result<FlashResult, EnergyError> {
+        let (lo, hi) = (0.0, 1.0);
         let z = &self.stream.z;
         let at = |beta: f64| -> Result<FlashResult, EnergyError> {
             let spec = FlashSpec::PressureVapourFraction {
@@ -670,7 +653,6 @@ impl<'a> Calc<'a> {
         if let Some(e) = failure {
             return Err(e);
         }
-        let _ = duty_w;
         at(beta)
     }
 }
