@@ -98,18 +98,7 @@ fn latent_heat_read_as_duty_matches_handbook() {
 }
 
 fn mixtures() -> impl Strategy<Value = (Vec<String>, Vec<f64>)> {
-    let names: Vec<String> = Library::builtin().components().map(|c| c.name().to_string()).collect();
-    (1usize..=5)
-        .prop_flat_map(move |n| {
-            (
-                proptest::sample::subsequence(names.clone(), n),
-                proptest::collection::vec(0.05f64..1.0, n),
-            )
-        })
-        .prop_map(|(names, w)| {
-            let s: f64 = w.iter().sum();
-            (names, w.iter().map(|v| v / s).collect())
-        })
+    common::mixtures(1, 5)
 }
 
 fn options(phase: bool, t_ref: f64, path: VaporisationPath) -> DutyOptions {

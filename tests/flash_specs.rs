@@ -4,7 +4,6 @@ mod common;
 
 use common::{fixture, num};
 use flashduty::equilibrium::{FlashError, FlashSpec, GivenK, KValueModel, KValues, Raoult, flash};
-use flashduty::library::Library;
 use flashduty::rachford_rice::{Phase, RachfordRiceError};
 use flashduty::units::{Pressure, Temperature};
 use flashduty::warnings::Warning;
@@ -107,18 +106,7 @@ fn ethanol_water_deviation_is_documented() {
 }
 
 fn mixtures() -> impl Strategy<Value = (Vec<String>, Vec<f64>)> {
-    let names: Vec<String> = Library::builtin().components().map(|c| c.name().to_string()).collect();
-    (2usize..=6)
-        .prop_flat_map(move |n| {
-            (
-                proptest::sample::subsequence(names.clone(), n),
-                proptest::collection::vec(0.05f64..1.0, n),
-            )
-        })
-        .prop_map(|(names, w)| {
-            let s: f64 = w.iter().sum();
-            (names, w.iter().map(|v| v / s).collect())
-        })
+    common::mixtures(2, 6)
 }
 
 proptest! {

@@ -1,6 +1,8 @@
 //! Shared helpers for the integration tests: reading the committed fixture tables.
 #![allow(dead_code)]
 
+use flashduty::library::Library;
+use proptest::prelude::*;
 use std::collections::HashMap;
 
 /// Rows of a fixture CSV in `tests/fixtures/`, `#` lines skipped, keyed by the header.
@@ -30,4 +32,21 @@ pub fn num(row: &HashMap<String, String>, col: &str) -> f64 {
     row[col]
         .parse()
         .unwrap_or_else(|e| panic!("{col} = {:?}: {e}", row[col]))
+}
+
+/// Random mixtures of `min..=max` distinct library components with mole fractions of at
+/// least a few per cent each, normalised.
+pub fn mixtures(min: usize, max: usize) -> impl Strategy<Value = (Vec<String>, Vec<f64>)> {
+    let names: Vec<String> = Library::builtin().components().map(|c| c.name().to_string()).collect();
+    (min..=max)
+        .prop_flat_map(move |n| {
+            (
+                proptest::sample::subsequence(names.clone(), n),
+                proptest::collection::vec(0.05f64..1.0, n),
+            )
+        })
+        .prop_map(|(names, w)| {
+            let s: f64 = w.iter().sum();
+            (names, w.iter().map(|v| v / s).collect())
+        })
 }
