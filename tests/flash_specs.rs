@@ -114,6 +114,12 @@ proptest! {
 
     /// Bubble T < T(P, β = ½) < dew T; T–P flashes at the bubble and dew points give β = 0
     /// and 1 within 1e-9; the T–β and P–β flashes invert the T–P flash to 1e-9.
+    ///
+    /// Where the two-phase region is only a few millikelvin wide or less (two components whose
+    /// Raoult's-law vapour pressures cross near the given pressure, methanol–n-hexane around
+    /// 49 kPa, say), a temperature known to round-off, 16 ε T, still moves β by |dβ/dT|·16 ε T,
+    /// which can exceed 1e-9: the β checks then allow that conditioning limit, from the
+    /// analytic dβ/dT of the flash itself.
     #[test]
     fn specifications_are_consistent((names, z) in mixtures(), log_p in (2e4f64).ln()..(5e5f64).ln(), beta in 0.02f64..0.98) {
         let m = Raoult::from_names(&names).unwrap();
@@ -123,20 +129,24 @@ proptest! {
         let half = flash(&m, &z, FlashSpec::PressureVapourFraction { pressure: pp, vapour_fraction: 0.5 }).unwrap();
         prop_assert!(bub.temperature_k < half.temperature_k && half.temperature_k < dew.temperature_k);
 
+        let tolerance = |r: &flashduty::equilibrium::FlashResult| {
+            1e-9 + r.sensitivity.map_or(0.0, |s| s.dvapour_fraction_dt_per_k.abs()) * 16.0 * f64::EPSILON * r.temperature_k
+        };
         let at_bub = flash(&m, &z, FlashSpec::TemperaturePressure { temperature: t(bub.temperature_k), pressure: pp }).unwrap();
-        prop_assert!(at_bub.vapour_fraction.abs() < 1e-9, "{}", at_bub.vapour_fraction);
+        prop_assert!(at_bub.vapour_fraction.abs() < tolerance(&at_bub), "{}", at_bub.vapour_fraction);
         let at_dew = flash(&m, &z, FlashSpec::TemperaturePressure { temperature: t(dew.temperature_k), pressure: pp }).unwrap();
-        prop_assert!((at_dew.vapour_fraction - 1.0).abs() < 1e-9, "{}", at_dew.vapour_fraction);
+        prop_assert!((at_dew.vapour_fraction - 1.0).abs() < tolerance(&at_dew), "{}", at_dew.vapour_fraction);
 
         // P–β → T, then T–P gives β back; T–β gives P back.
         let pb = flash(&m, &z, FlashSpec::PressureVapourFraction { pressure: pp, vapour_fraction: beta }).unwrap();
         let tp = flash(&m, &z, FlashSpec::TemperaturePressure { temperature: t(pb.temperature_k), pressure: pp }).unwrap();
-        prop_assert!((tp.vapour_fraction - beta).abs() < 1e-9, "{} vs {beta}", tp.vapour_fraction);
+        prop_assert!((tp.vapour_fraction - beta).abs() < tolerance(&tp), "{} vs {beta}", tp.vapour_fraction);
         let tb = flash(&m, &z, FlashSpec::TemperatureVapourFraction { temperature: t(pb.temperature_k), vapour_fraction: beta }).unwrap();
         prop_assert!((tb.pressure_pa / pp.pascal() - 1.0).abs() < 1e-9, "{} vs {}", tb.pressure_pa, pp.pascal());
         // Compositions agree too.
+        let x_tolerance = tolerance(&tp);
         for (a, b) in tp.liquid.unwrap().iter().zip(pb.liquid.as_ref().unwrap()) {
-            prop_assert!((a - b).abs() < 1e-9);
+            prop_assert!((a - b).abs() < x_tolerance);
         }
         // β = 0 and 1 are the bubble and dew points.
         let b0 = flash(&m, &z, FlashSpec::PressureVapourFraction { pressure: pp, vapour_fraction: 0.0 }).unwrap();
