@@ -126,7 +126,8 @@ impl EnthalpySplit {
 /// use flashduty::rachford_rice::Phase;
 /// let water = Library::builtin().get("water").unwrap().clone();
 /// let h = EnthalpyModel::new(vec![water], ReferenceState::default(), VaporisationPath::default());
-/// // Heating liquid water from 25 °C to 75 °C takes about 50 K × 75.3 J/(mol·K).
+/// // Heating liquid water from 25 °C to 75 °C takes about 50 K × 75.3 J/(mol·K): the mean
+/// // liquid Cp there (IAPWS-IF97, from tests/fixtures/iapws_water_1atm.csv).
 /// let dh = h.pure(0, Phase::Liquid, 348.15).total_j_per_mol();
 /// assert!((dh / (50.0 * 75.3) - 1.0).abs() < 0.02);
 /// ```

@@ -149,6 +149,7 @@ impl HeatCapacity for PolynomialCp {
 /// // Water vapour, NIST Chemistry WebBook Shomate constants (500–1700 K), from memory.
 /// let cp = ShomateCp::new([30.09200, 6.832514, 6.793435, -2.534480, 0.082139],
 ///     ValidityRange::new(500.0, 1700.0).unwrap()).unwrap();
+/// // Ideal-gas water at 500 K: 35.2 J/(mol·K) (JANAF Thermochemical Tables, from memory).
 /// assert!((cp.cp(500.0) - 35.2).abs() < 0.2);
 /// ```
 #[derive(Debug, Clone, Copy, PartialEq)]
