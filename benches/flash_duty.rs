@@ -10,7 +10,7 @@
 
 use criterion::{Criterion, criterion_group, criterion_main};
 use flashduty::energy::{DutyOptions, Stream, StreamState, heater_duty, outlet_for_duty};
-use flashduty::equilibrium::{FlashSpec, KValueModel, KValues, Raoult, flash};
+use flashduty::equilibrium::{FlashSpec, KValueModel, KValues, Raoult, TpFlasher, flash};
 use flashduty::properties::VapourPressure;
 use flashduty::rachford_rice::{Options, solve_into};
 use flashduty::units::{MolarFlow, Power, Pressure, Temperature};
@@ -56,6 +56,10 @@ fn bench(c: &mut Criterion) {
                 },
             )
         })
+    });
+    let mut flasher = TpFlasher::new(&model).expect("Raoult's law is composition-independent");
+    g.bench_function("T-P flash, reusable buffers (TpFlasher)", |b| {
+        b.iter(|| flasher.flash(black_box(&Z), t, p).map(|s| s.vapour_fraction))
     });
     g.bench_function("bubble temperature", |b| {
         b.iter(|| flash(&model, black_box(&Z), FlashSpec::BubbleTemperature { pressure: p }))

@@ -405,3 +405,49 @@ fn composition_dependent_models_plug_in() {
         assert!((y[i] - gx[i] * x[i] * psat / ATM).abs() < 1e-9, "{i}");
     }
 }
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(200))]
+
+    /// The allocation-free flasher gives exactly the phase split of `flash`.
+    #[test]
+    fn reusable_flasher_matches_flash((names, z) in mixtures(), tk in 250.0f64..500.0, log_p in (2e4f64).ln()..(5e5f64).ln()) {
+        use flashduty::equilibrium::TpFlasher;
+        let m = Raoult::from_names(&names).unwrap();
+        let (temperature, pressure) = (t(tk), p(log_p.exp()));
+        let mut flasher = TpFlasher::new(&m).unwrap();
+        let s = flasher.flash(&z, temperature, pressure).unwrap();
+        let r = flash(&m, &z, FlashSpec::TemperaturePressure { temperature, pressure }).unwrap();
+        // Equal to round-off: `flash` normalises z before the solve, the flasher inside it.
+        let close = |a: &[f64], b: &[f64]| a.iter().zip(b).all(|(a, b)| (a - b).abs() <= 1e-14 * a.abs().max(b.abs()) + 1e-15);
+        prop_assert_eq!(s.phase, r.phase);
+        prop_assert!(close(&[s.vapour_fraction, s.liquid_fraction], &[r.vapour_fraction, r.liquid_fraction]));
+        prop_assert_eq!(flasher.k_values(), r.k_values.as_slice());
+        if let Some(x) = &r.liquid {
+            prop_assert!(close(flasher.liquid(), x), "{:?} vs {:?}", flasher.liquid(), x);
+        }
+        if let Some(y) = &r.vapour {
+            prop_assert!(close(flasher.vapour(), y), "{:?} vs {:?}", flasher.vapour(), y);
+        }
+    }
+}
+
+#[test]
+fn reusable_flasher_errors() {
+    use flashduty::equilibrium::TpFlasher;
+    let m = Raoult::from_names(&["benzene", "toluene"]).unwrap();
+    let mut flasher = TpFlasher::new(&m).unwrap();
+    let e = flasher.flash(&[1.0], t(300.0), p(ATM)).unwrap_err();
+    assert!(matches!(e, FlashError::ComponentCount { components: 2, z: 1 }), "{e}");
+    let e = flasher.flash(&[0.2, 0.2], t(300.0), p(ATM)).unwrap_err();
+    assert!(
+        matches!(e, FlashError::Feed(RachfordRiceError::MoleFractionSum { .. })),
+        "{e}"
+    );
+    let margules = Margules {
+        raoult: m.clone(),
+        a: 0.5,
+    };
+    let e = TpFlasher::new(&margules).unwrap_err();
+    assert!(e.to_string().contains("composition-dependent"), "{e}");
+}
