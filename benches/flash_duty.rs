@@ -11,7 +11,8 @@
 use criterion::{Criterion, criterion_group, criterion_main};
 use flashduty::energy::{DutyOptions, Stream, StreamState, heater_duty, outlet_for_duty};
 use flashduty::equilibrium::{FlashSpec, KValueModel, KValues, Raoult, TpFlasher, flash};
-use flashduty::properties::VapourPressure;
+use flashduty::fit::{DataPoint, fit_antoine};
+use flashduty::properties::{Antoine, VapourPressure};
 use flashduty::rachford_rice::{Options, solve_into};
 use flashduty::units::{MolarFlow, Power, Pressure, Temperature};
 use std::hint::black_box;
@@ -45,7 +46,7 @@ fn bench(c: &mut Criterion) {
     g.bench_function("baseline: Rachford-Rice alone", |b| {
         b.iter(|| solve_into(black_box(&Z), black_box(&kv.k), Options::default(), &mut x, &mut y))
     });
-    g.bench_function("T-P flash (Raoult, Antoine)", |b| {
+    g.bench_function("T-P flash (Raoult, library vapour pressures)", |b| {
         b.iter(|| {
             flash(
                 &model,
@@ -57,8 +58,30 @@ fn bench(c: &mut Criterion) {
             )
         })
     });
+    // Raoult's law with Antoine K-values: Antoine constants fitted (by the library's own
+    // fitter) to each component's library vapour pressure from Tb − 60 K to Tb + 40 K.
+    let antoine = AntoineK(
+        model
+            .components()
+            .iter()
+            .map(|c| {
+                let tb = c.normal_boiling_point_k();
+                let points: Vec<DataPoint> = (0..=20)
+                    .map(|i| {
+                        let t = tb - 60.0 + 5.0 * i as f64;
+                        DataPoint::new(t, c.vapour_pressure().psat_pa(t))
+                    })
+                    .collect();
+                fit_antoine(&points).expect("Antoine fit").antoine
+            })
+            .collect(),
+    );
+    let mut antoine_flasher = TpFlasher::new(&antoine).expect("composition-independent");
+    g.bench_function("T-P flash, Antoine K-values, reusable buffers (TpFlasher)", |b| {
+        b.iter(|| antoine_flasher.flash(black_box(&Z), t, p).map(|s| s.vapour_fraction))
+    });
     let mut flasher = TpFlasher::new(&model).expect("Raoult's law is composition-independent");
-    g.bench_function("T-P flash, reusable buffers (TpFlasher)", |b| {
+    g.bench_function("T-P flash, library vapour pressures, reusable buffers (TpFlasher)", |b| {
         b.iter(|| flasher.flash(black_box(&Z), t, p).map(|s| s.vapour_fraction))
     });
     g.bench_function("bubble temperature", |b| {
@@ -125,6 +148,24 @@ fn bench(c: &mut Criterion) {
         b.iter(|| outlet_for_duty(&stream, black_box(inlet), q, p, o))
     });
     g.finish();
+}
+
+/// Raoult's law with one Antoine equation per component.
+struct AntoineK(Vec<Antoine>);
+
+impl KValueModel for AntoineK {
+    fn component_count(&self) -> usize {
+        self.0.len()
+    }
+    fn k_values(&self, t_k: f64, p_pa: f64, _x: &[f64], _y: &[f64], out: &mut KValues) {
+        let ln_p = p_pa.ln();
+        for (i, a) in self.0.iter().enumerate() {
+            let (ln_psat, slope) = a.ln_psat_with_slope(t_k);
+            out.k[i] = (ln_psat - ln_p).exp();
+            out.dln_k_dt[i] = slope;
+            out.dln_k_dp[i] = -1.0 / p_pa;
+        }
+    }
 }
 
 criterion_group!(benches, bench);

@@ -66,32 +66,56 @@ pub(crate) fn bracketed_newton(
     }
 }
 
+/// A sign-change bracket of an increasing function, with its values at the ends.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub(crate) struct Bracket {
+    /// Low end, where f <= 0.
+    pub lo: f64,
+    /// High end, where f >= 0.
+    pub hi: f64,
+    /// f(lo).
+    pub f_lo: f64,
+    /// f(hi).
+    pub f_hi: f64,
+}
+
+impl Bracket {
+    /// The root of the straight line through the two ends (the midpoint where that is not
+    /// defined): a good first guess for a function that is nearly linear in its variable.
+    pub fn secant(&self) -> f64 {
+        let x = self.lo - self.f_lo * (self.hi - self.lo) / (self.f_hi - self.f_lo);
+        if x.is_finite() && x > self.lo && x < self.hi {
+            x
+        } else {
+            0.5 * (self.lo + self.hi)
+        }
+    }
+}
+
 /// Widens `[lo, hi]` geometrically (factor `grow` on each side's distance from the
 /// other) until `f(lo) <= 0 <= f(hi)` for an increasing `f`, keeping inside
-/// `[min, max]`. Returns the bracket and the evaluations made, or `None` if `f` does not
-/// change sign within `[min, max]`.
+/// `[min, max]`. Returns the bracket, or `None` if `f` does not change sign within
+/// `[min, max]`.
 pub(crate) fn expand_bracket(
     mut f: impl FnMut(f64) -> f64,
     mut lo: f64,
     mut hi: f64,
     min: f64,
     max: f64,
-) -> Option<(f64, f64, u32)> {
+) -> Option<Bracket> {
     lo = lo.clamp(min, max);
     hi = hi.clamp(min, max);
     if lo > hi {
         std::mem::swap(&mut lo, &mut hi);
     }
-    let mut evaluations = 0;
     let mut f_lo = f(lo);
     let mut f_hi = f(hi);
-    evaluations += 2;
     for _ in 0..100 {
         if f_lo.is_nan() || f_hi.is_nan() {
             return None;
         }
         if f_lo <= 0.0 && f_hi >= 0.0 {
-            return Some((lo, hi, evaluations));
+            return Some(Bracket { lo, hi, f_lo, f_hi });
         }
         let width = (hi - lo).max(1e-3 * hi.abs().max(1.0));
         if f_lo > 0.0 {
@@ -111,7 +135,6 @@ pub(crate) fn expand_bracket(
             hi = (hi + width).min(max);
             f_hi = f(hi);
         }
-        evaluations += 1;
     }
     None
 }
@@ -137,7 +160,22 @@ mod tests {
     #[test]
     fn expands_and_gives_up() {
         let b = expand_bracket(|x| x - 10.0, 0.0, 1.0, -100.0, 100.0).unwrap();
-        assert!(b.0 <= 10.0 && b.1 >= 10.0);
+        assert!(b.lo <= 10.0 && b.hi >= 10.0);
+        assert!(b.secant() >= b.lo && b.secant() <= b.hi);
+        let line = Bracket {
+            lo: 0.0,
+            hi: 4.0,
+            f_lo: -1.0,
+            f_hi: 3.0,
+        };
+        assert_eq!(line.secant(), 1.0);
+        let flat = Bracket {
+            lo: 0.0,
+            hi: 4.0,
+            f_lo: 0.0,
+            f_hi: 0.0,
+        };
+        assert_eq!(flat.secant(), 2.0);
         assert!(expand_bracket(|x| x - 1000.0, 0.0, 1.0, -100.0, 100.0).is_none());
         assert!(expand_bracket(|_| f64::NAN, 0.0, 1.0, -100.0, 100.0).is_none());
     }

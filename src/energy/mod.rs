@@ -526,16 +526,16 @@ impl<'a> Calc<'a> {
         let out_of_reach = || EnergyError::DutyOutOfReach { duty_w };
         let single = |phase: Phase, lo_t: f64, hi_t: f64| -> Result<FlashResult, EnergyError> {
             let h = |t: f64| self.h.phase_enthalpy(phase, z, t) - target;
-            let (lo, hi, _) = expand_bracket(h, lo_t, hi_t, SEARCH_MIN_TEMPERATURE_K, SEARCH_MAX_TEMPERATURE_K)
+            let bracket = expand_bracket(h, lo_t, hi_t, SEARCH_MIN_TEMPERATURE_K, SEARCH_MAX_TEMPERATURE_K)
                 .ok_or_else(out_of_reach)?;
             let root = bracketed_newton(
                 |t| {
                     let slope: f64 = (0..z.len()).map(|i| z[i] * self.h.pure_slope(i, phase, t)).sum();
                     (h(t), slope)
                 },
-                lo,
-                hi,
-                0.5 * (lo + hi),
+                bracket.lo,
+                bracket.hi,
+                bracket.secant(),
                 1e-10,
             );
             self.tp_flash(root.x, p)

@@ -551,9 +551,9 @@ impl<M: KValueModel + ?Sized> Solver<'_, M> {
         let (t_lo, t_hi) = self.model.temperature_hint(p).unwrap_or((250.0, 450.0));
         let clamp = |t: f64| t.clamp(SEARCH_MIN_TEMPERATURE_K, SEARCH_MAX_TEMPERATURE_K);
         let (v_min, v_max) = (v_of_t(SEARCH_MIN_TEMPERATURE_K), v_of_t(SEARCH_MAX_TEMPERATURE_K));
-        let (mut v_lo, mut v_hi) = (v_of_t(clamp(0.99 * t_lo)), v_of_t(clamp(1.01 * t_hi)));
+        let (v_lo, v_hi) = (v_of_t(clamp(0.99 * t_lo)), v_of_t(clamp(1.01 * t_hi)));
         let bracket = expand_bracket(|v| h(self, v).0, v_lo, v_hi, v_min, v_max);
-        let Some((lo, hi, _)) = bracket else {
+        let Some(bracket) = bracket else {
             return Err(if what.starts_with("dew") {
                 self.no_dew_point(SEARCH_MAX_TEMPERATURE_K, p, what)
             } else {
@@ -565,16 +565,13 @@ impl<M: KValueModel + ?Sized> Solver<'_, M> {
                 }
             });
         };
-        (v_lo, v_hi) = (lo, hi);
+        // The sums are nearly linear in v, so the secant through the bracket's ends is close.
         let root: Root = bracketed_newton(
-            |v| {
-                let (value, slope) = h(self, v);
-                (value, slope)
-            },
-            v_lo,
-            v_hi,
-            0.5 * (v_lo + v_hi),
-            RELATIVE_TOLERANCE * v_hi.abs(),
+            |v| h(self, v),
+            bracket.lo,
+            bracket.hi,
+            bracket.secant(),
+            RELATIVE_TOLERANCE * bracket.hi.abs(),
         );
         self.iterations += root.iterations;
         Ok(t_of_v(root.x))
@@ -595,13 +592,19 @@ impl<M: KValueModel + ?Sized> Solver<'_, M> {
         } else {
             guess_ln_p
         };
-        let Some((lo, hi, _)) = expand_bracket(|l| h(self, l).0, start - 1e-3, start + 1e-3, lmin, lmax) else {
+        let Some(bracket) = expand_bracket(|l| h(self, l).0, start - 1e-3, start + 1e-3, lmin, lmax) else {
             return Err(FlashError::NoSolution {
                 what,
                 detail: "no positive pressure satisfies it (is any component volatile?)".to_string(),
             });
         };
-        let root = bracketed_newton(|l| h(self, l), lo, hi, start, RELATIVE_TOLERANCE * start.abs().max(1.0));
+        let root = bracketed_newton(
+            |l| h(self, l),
+            bracket.lo,
+            bracket.hi,
+            start,
+            RELATIVE_TOLERANCE * start.abs().max(1.0),
+        );
         self.iterations += root.iterations;
         Ok(root.x.exp())
     }
