@@ -81,9 +81,10 @@ fn bench(c: &mut Criterion) {
         b.iter(|| antoine_flasher.flash(black_box(&Z), t, p).map(|s| s.vapour_fraction))
     });
     let mut flasher = TpFlasher::new(&model).expect("Raoult's law is composition-independent");
-    g.bench_function("T-P flash, library vapour pressures, reusable buffers (TpFlasher)", |b| {
-        b.iter(|| flasher.flash(black_box(&Z), t, p).map(|s| s.vapour_fraction))
-    });
+    g.bench_function(
+        "T-P flash, library vapour pressures, reusable buffers (TpFlasher)",
+        |b| b.iter(|| flasher.flash(black_box(&Z), t, p).map(|s| s.vapour_fraction)),
+    );
     g.bench_function("bubble temperature", |b| {
         b.iter(|| flash(&model, black_box(&Z), FlashSpec::BubbleTemperature { pressure: p }))
     });
