@@ -32,25 +32,13 @@ use criterion::Criterion;
 use flashduty::rachford_rice::{Options, solve_into};
 use roots::{Convergency, find_root_brent};
 
+#[path = "../tests/common/rng.rs"]
+mod rng;
+use rng::Rng;
+
 const FEEDS: usize = 1000;
 const SIZES: [usize; 5] = [2, 5, 10, 20, 50];
 const METHODS: [&str; 3] = ["ours", "bisection", "brent"];
-
-/// splitmix64 (Steele, Lea & Flood, 2014; constants from memory, as in common use).
-struct Rng(u64);
-
-impl Rng {
-    fn next_u64(&mut self) -> u64 {
-        self.0 = self.0.wrapping_add(0x9E37_79B9_7F4A_7C15);
-        let mut z = self.0;
-        z = (z ^ (z >> 30)).wrapping_mul(0xBF58_476D_1CE4_E5B9);
-        z = (z ^ (z >> 27)).wrapping_mul(0x94D0_49BB_1331_11EB);
-        z ^ (z >> 31)
-    }
-    fn uniform(&mut self) -> f64 {
-        (self.next_u64() >> 11) as f64 * (1.0 / (1u64 << 53) as f64)
-    }
-}
 
 struct Feed {
     z: Vec<f64>,
