@@ -6,18 +6,20 @@
 //! is the time of one solve averaged over the set. All three write x and y into
 //! preallocated buffers; only ours validates and normalises its input.
 //!
-//! Tolerances: ours stops when its step is below 2ε relative (or G is down to round-off);
+//! Tolerances: ours stops when its step is below 2ε relative, when G is down to round-off,
+//! or when the observed convergence rate puts the error after the step below ε/4 relative;
 //! bisection stops when its bracket is below 2ε relative to the midpoint; Brent stops when
 //! its bracket is below 2ε relative (plus 1e-300 absolute).
 //!
 //! After the runs a table of per-solve medians (criterion's median estimate) and ratios is
 //! printed, read back from criterion's `estimates.json` files.
 //!
-//! Columns: "our it" is [`SplitSummary::iterations`] (Newton or bisection steps after the
-//! phase test; the phase test's evaluation at β = ½ also supplies the first Newton step),
-//! "our evals" counts every pass over the components that evaluates F or G, phase tests
-//! included ([`SplitSummary::evaluations`]); bisection and Brent count evaluations of F (the
-//! `roots` implementation re-evaluates F at the bracket ends on every iteration).
+//! Columns: "our it" is [`SplitSummary::iterations`] (evaluations after the set-up pass,
+//! whose values at β = ½ also supply the first Halley step),
+//! "our evals" counts every evaluation of F or G, phase tests included
+//! ([`SplitSummary::evaluations`]; F(0), F(½) and F(1) are made in the one set-up pass);
+//! bisection and Brent count evaluations of F (the `roots` implementation re-evaluates F at
+//! the bracket ends on every iteration).
 //!
 //! Run: `cargo bench --bench rachford_rice` (about a minute).
 //!

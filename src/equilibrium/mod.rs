@@ -230,10 +230,9 @@ pub(crate) fn flash_bracketed<M: KValueModel + ?Sized>(
 ) -> Result<FlashResult, FlashError> {
     if let FlashSpec::TemperatureVapourFraction { vapour_fraction, .. }
     | FlashSpec::PressureVapourFraction { vapour_fraction, .. } = spec
+        && !(0.0..=1.0).contains(&vapour_fraction)
     {
-        if !(0.0..=1.0).contains(&vapour_fraction) {
-            return Err(FlashError::VapourFractionOutOfRange { value: vapour_fraction });
-        }
+        return Err(FlashError::VapourFractionOutOfRange { value: vapour_fraction });
     }
     let n = model.component_count();
     if z.len() != n {

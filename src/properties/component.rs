@@ -506,15 +506,15 @@ impl Component {
                 // The reduced temperature uses the component's own Tc, so the latent heat
                 // is zero exactly there; a fit's Tc (`Tc_K`) differs from it by a few
                 // hundredths of a kelvin at most and is kept for the record only.
-                if let Some(t) = tc_k {
-                    if !(t.is_finite() && (t - tc).abs() <= 1.0) {
-                        return Err(invalid(
-                            n,
-                            "latent_heat.Tc_K",
-                            t,
-                            "must lie within 1 K of the component's Tc",
-                        ));
-                    }
+                if let Some(t) = tc_k
+                    && !(t.is_finite() && (t - tc).abs() <= 1.0)
+                {
+                    return Err(invalid(
+                        n,
+                        "latent_heat.Tc_K",
+                        t,
+                        "must lie within 1 K of the component's Tc",
+                    ));
                 }
                 let tc_fit = tc;
                 LatentHeatModel::Dippr106(Dippr106::new([*a_j_per_mol, *b, *c, *d, *e], tc_fit, rng).ok_or_else(

@@ -92,17 +92,17 @@ fn run_row(
         return (id, Err(e.clone()));
     }
     let cells = &row.cells;
-    if let Some(c) = row.cell(&sheet.columns, &Role::Command) {
-        if Command::from_name(c) != Some(command) {
-            return (
-                id,
-                Err(format!(
-                    "command: '{c}' in a {} batch (leave the cell empty or write {})",
-                    command.name(),
-                    command.name()
-                )),
-            );
-        }
+    if let Some(c) = row.cell(&sheet.columns, &Role::Command)
+        && Command::from_name(c) != Some(command)
+    {
+        return (
+            id,
+            Err(format!(
+                "command: '{c}' in a {} batch (leave the cell empty or write {})",
+                command.name(),
+                command.name()
+            )),
+        );
     }
     let out = sheet::case_value(&sheet.columns, cells)
         .and_then(|v| parse_case(&v, command))

@@ -327,10 +327,10 @@ pub fn show(v: &Value) -> String {
 /// The nearest known key to `key`, if any is near.
 pub fn suggest_key(key: &str, known: &[&str]) -> Option<String> {
     let lower = key.trim().to_lowercase();
-    if let Some((_, k)) = ALIASES.iter().find(|(a, _)| *a == lower) {
-        if known.contains(k) {
-            return Some((*k).to_string());
-        }
+    if let Some((_, k)) = ALIASES.iter().find(|(a, _)| *a == lower)
+        && known.contains(k)
+    {
+        return Some((*k).to_string());
     }
     let mut best: Option<(usize, &str)> = None;
     let candidates = known.iter().map(|k| (k.to_lowercase(), *k)).chain(

@@ -344,10 +344,10 @@ pub fn run(lib: &Library, name: &str, bytes: &[u8]) -> CliResult<Vec<RowResult>>
         bail!("{name}: no 'command' column (each row names its command: flash, bubble, dew, duty or curve)");
     }
     for c in &sheet.columns {
-        if let Role::Tol(k) | Role::Rtol(k) = &c.role {
-            if !sheet.columns.iter().any(|e| e.role == Role::Expect(k.clone())) {
-                bail!("{name}: column '{}' has no matching 'expect.{k}' column", c.header);
-            }
+        if let Role::Tol(k) | Role::Rtol(k) = &c.role
+            && !sheet.columns.iter().any(|e| e.role == Role::Expect(k.clone()))
+        {
+            bail!("{name}: column '{}' has no matching 'expect.{k}' column", c.header);
         }
     }
     Ok(sheet.rows.par_iter().map(|r| run_row(lib, &sheet, r)).collect())

@@ -253,14 +253,14 @@ fn k_flash(case: &Case) -> CliResult<FlashOutcome> {
     let Some(z) = &case.z else {
         bail!("z: missing (a flash with given K-values needs z and K)");
     };
-    if let Some(names) = &case.components {
-        if names.len() != z.len() {
-            bail!(
-                "components: {} names given for {} mole fractions in z",
-                names.len(),
-                z.len()
-            );
-        }
+    if let Some(names) = &case.components
+        && names.len() != z.len()
+    {
+        bail!(
+            "components: {} names given for {} mole fractions in z",
+            names.len(),
+            z.len()
+        );
     }
     let flow = match case.flow {
         None => None,

@@ -340,10 +340,10 @@ fn command_case() -> BoxedStrategy<Value> {
             if let Some(p) = path {
                 extra["path"] = p;
             }
-            if let Some(fl) = flow {
-                if f.get("z").is_some() {
-                    extra["flow"] = fl;
-                }
+            if let Some(fl) = flow
+                && f.get("z").is_some()
+            {
+                extra["flow"] = fl;
             }
             merge(f, extra)
         });
