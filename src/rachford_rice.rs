@@ -36,9 +36,9 @@
 //!   shrinks every step. The first step starts from s = ½ with the set-up pass's values.
 //! * **Stopping.** The iteration stops when the step is below 2ε relative, when G is down
 //!   to its own round-off, or when the step is below 1e-4 relative and the observed rate of
-//!   convergence (the last two steps, read as at least quadratic) puts the error left after
-//!   it below ε/4 relative; the last saves the confirming evaluation that a pure step test
-//!   needs.
+//!   convergence (the last two steps, read as cubic when both were Halley's and as
+//!   quadratic otherwise) puts the error left after it below ε/4 relative; the last saves
+//!   the confirming evaluation that a pure step test needs.
 //! * **Polish.** In f64 the root of F is only known to about ε·Σ|zᵢ(Kᵢ − 1)/dᵢ| / |F′(β)|
 //!   absolute: when every K lies within δ of 1 that is about ε/δ, and a root within a hair
 //!   of β = 0 or 1 is known absolutely, not relatively, because F(0) itself is a cancelling
@@ -733,8 +733,9 @@ impl<'a> Oriented<'a> {
     /// instead (far from the root, where H″ is not to be trusted). w is at most about 1e32
     /// (poles within 4.5e15 of the window), so the products stay in range for any feed the
     /// window admits; a step that still overflows is not finite and the bracket is bisected.
+    /// Returns the step and whether it is Halley's (not Newton's).
     #[inline]
-    fn halley_step(&self, s: f64, g: f64, dg: f64, d2g: f64) -> f64 {
+    fn halley_step(&self, s: f64, g: f64, dg: f64, d2g: f64) -> (f64, bool) {
         let (u, v) = (s - self.pole_lo, self.pole_hi - s);
         let w = u * v;
         let h = w * g;
@@ -742,8 +743,9 @@ impl<'a> Oriented<'a> {
         let d2h = -2.0 * g + 2.0 * (v - u) * dg + w * d2g;
         let dh2 = dh * dh;
         let den = 2.0 * dh2 - h * d2h;
-        let den = if den >= dh2 { den } else { 2.0 * dh2 };
-        2.0 * h * dh / den
+        let halley = den >= dh2;
+        let den = if halley { den } else { 2.0 * dh2 };
+        (2.0 * h * dh / den, halley)
     }
 
     /// Halley's method on H from s = ½, where G, G′, G″ and the scale are `start`, inside
@@ -761,8 +763,9 @@ impl<'a> Oriented<'a> {
         let [mut g, mut dg, mut d2g, mut scale] = start;
         let mut s = 0.5;
         let mut iterations = 0;
-        // The last step taken by Halley's method (0 after a bisection), for the rate test.
-        let mut last_step = 0.0_f64;
+        // The last step taken (0 after a bisection) and whether it was Halley's, for the
+        // rate test.
+        let (mut last_step, mut last_halley) = (0.0_f64, false);
         loop {
             if g == 0.0 {
                 break;
@@ -773,23 +776,31 @@ impl<'a> Oriented<'a> {
                 hi = hi.min(s);
             }
             let next = if iterations <= NEWTON_STEPS {
-                let step = self.halley_step(s, g, dg, d2g);
+                let (step, halley) = self.halley_step(s, g, dg, d2g);
                 let candidate = s - step;
                 // Converged when the step is below the resolution of s; when G is down to
                 // its own round-off (near β = 0 or 1 the absolute error of G, about
                 // ε Σ|terms|, can exceed ε·s·|G′|, and the step test alone would then never
                 // pass); or when the step is small and the rate of convergence so far says
-                // the error left after it is below the resolution of s.
+                // the error left after it is below the resolution of s. With e ≈ C·e_prev^p
+                // and steps standing for errors, the error after this step is about
+                // |step|·ρ^p with ρ = |step/last step|: p = 3 when this step and the last
+                // were Halley's, else (a Newton step among them) p = 2.
                 let at_round_off = g.abs() <= ROUND_OFF * f64::EPSILON * scale;
                 let rate = step.abs() / last_step.abs();
-                let by_rate = step.abs() <= RATE_STEP * s && step.abs() * rate * rate <= 0.25 * f64::EPSILON * s;
+                let rate_p = if halley && last_halley {
+                    rate * rate * rate
+                } else {
+                    rate * rate
+                };
+                let by_rate = step.abs() <= RATE_STEP * s && step.abs() * rate_p <= 0.25 * f64::EPSILON * s;
                 if candidate.is_finite() && (step.abs() <= 2.0 * f64::EPSILON * s || at_round_off || by_rate) {
                     // Converged; the step may round onto the bracket end just moved to s.
                     s = candidate.clamp(lo, hi);
                     break;
                 }
                 if candidate > lo && candidate < hi && candidate.is_finite() {
-                    last_step = step;
+                    (last_step, last_halley) = (step, halley);
                     candidate
                 } else {
                     last_step = 0.0;
