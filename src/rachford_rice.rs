@@ -445,13 +445,15 @@ pub fn solve_into(
     // Start at ½ with G, G′ and G″ from the set-up pass (G(½) = ∓F(½) by orientation; the
     // odd derivatives change sign with it, G′ does not). ½ may lie above the window: the
     // first step still starts there, and the bracket catches it if it lands outside.
-    let [f_half, df_half, d2f_half, scale_half] = set_up.half;
+    // The scale of G's round-off at ½ is not gathered (one running sum fewer in the set-up
+    // pass); 0 turns the round-off test off for the first step only.
+    let [f_half, df_half, d2f_half] = set_up.half;
     let sign = if orientation == Orientation::Liquid { 1.0 } else { -1.0 };
     let start = [
         sign * f_half * inv_sum,
         df_half * inv_sum,
         sign * 2.0 * d2f_half * inv_sum,
-        scale_half * inv_sum,
+        0.0,
     ];
     let bracket = (lo, hi);
     Ok(match orientation {
@@ -511,28 +513,31 @@ fn in_pairs(z: &[f64], k: &[f64], mut f: impl FnMut(f64x2, f64x2)) {
     }
 }
 
-/// The Leibovici–Neoschil bounds from a pair of components (raw or normalised zᵢ), for
-/// both orientations: [lower β, upper β, lower γ, upper γ], ±∞ where a component gives none.
+/// The Leibovici–Neoschil bounds from a pair of components (raw or normalised zᵢ):
+/// [lower β, upper β, lower γ], ∓∞ where a component gives none; the upper bound on
+/// γ = 1 − β is 1 − (lower β), formed in [`Window::finish`].
 ///
-/// From yᵢ ≤ 1 (Kᵢ > 1) and xᵢ ≤ 1 (Kᵢ < 1). `q` is 1/(Kᵢ − 1). Each bound is widened by
-/// its round-off, `u` times the size of the terms of its numerator: the normalised zᵢ sum
-/// to 1 only within about nε, 1 − zᵢ or Kᵢzᵢ − 1 cancel, and q is rounded. Without the
-/// margin a bound can land on the wrong side of a root that lies within round-off of it
-/// (a binary with one K = 0 has its root exactly on the bound). A component with zᵢ = 0
-/// gives bounds outside [0, 1], which do no harm.
+/// From yᵢ ≤ 1 (Kᵢ > 1) and xᵢ ≤ 1 (Kᵢ < 1). `q` is 1/(Kᵢ − 1). The lower bound on γ is
+/// formed directly, not as 1 − (upper β), so that it keeps its relative precision near
+/// γ = 0, where a component with K = 0 (or nearly) puts a pole: its bound is then about zᵢ,
+/// within a hair of the root, and keeps the iteration off the pole. (The lower bound on β
+/// is exact in the same way for a pole near β = 0; the upper bounds face poles at or
+/// beyond 1, far from the bracket (0, ½].) Each bound is widened by its round-off, `u`
+/// times the size of the terms of its numerator: the normalised zᵢ sum to 1 only within
+/// about nε, 1 − zᵢ or Kᵢzᵢ − 1 cancel, and q is rounded. Without the margin a bound can
+/// land on the wrong side of a root that lies within round-off of it (a binary with one
+/// K = 0 has its root exactly on the bound). A component with zᵢ = 0 gives bounds outside
+/// [0, 1], which do no harm.
 #[inline(always)]
-fn bounds(z: f64x2, k: f64x2, q: f64x2, u: f64) -> [f64x2; 4] {
+fn bounds(z: f64x2, k: f64x2, q: f64x2, u: f64) -> [f64x2; 3] {
     let one = f64x2::ONE;
     let (lo, hi) = (f64x2::splat(f64::NEG_INFINITY), f64x2::splat(f64::INFINITY));
     let kz = k * z;
-    let above = k.simd_gt(one);
     let below = k.simd_lt(one);
-    let not_below_zero = one - z + u * (one + z);
     [
-        above.select((kz - one - u * (one + kz)) * q, lo),
-        below.select(-not_below_zero * q, hi),
-        below.select(-(z - k - u * (z + k)) * q, lo),
-        above.select(not_below_zero * k * q, hi),
+        k.simd_gt(one).select((kz - one - u * (one + kz)) * q, lo),
+        below.select((z - one - u * (one + z)) * q, hi),
+        below.select((k - z + u * (z + k)) * q, lo),
     ]
 }
 
@@ -553,33 +558,41 @@ fn window(z: &[f64], k: &[f64], inv_sum: f64) -> [f64; 4] {
 }
 
 /// Pairwise running bounds, combined by [`finish`](Self::finish).
-struct Window([f64x2; 4]);
+struct Window([f64x2; 3]);
 
 impl Window {
     fn new() -> Self {
         let (lo, hi) = (f64x2::splat(f64::NEG_INFINITY), f64x2::splat(f64::INFINITY));
-        Self([lo, hi, lo, hi])
+        Self([lo, hi, lo])
     }
 
     #[inline(always)]
-    fn add(&mut self, b: [f64x2; 4]) {
+    fn add(&mut self, b: [f64x2; 3]) {
         let w = &mut self.0;
         // (fast_max and fast_min: no bound is NaN, since q is ±∞ only where it is masked.)
         w[0] = w[0].fast_max(b[0]);
         w[1] = w[1].fast_min(b[1]);
         w[2] = w[2].fast_max(b[2]);
-        w[3] = w[3].fast_min(b[3]);
     }
 
+    /// [lower β, upper β, lower γ, upper γ]; the last is 1 − (lower β) plus the absolute
+    /// round-off of that subtraction.
     fn finish(&self) -> [f64; 4] {
-        let [a, b, c, d] = self.0.map(f64x2::to_array);
-        [a[0].max(a[1]), b[0].min(b[1]), c[0].max(c[1]), d[0].min(d[1])]
+        let [a, b, c] = self.0.map(f64x2::to_array);
+        let lower_beta = a[0].max(a[1]);
+        [
+            lower_beta,
+            b[0].min(b[1]),
+            c[0].max(c[1]),
+            (1.0 - lower_beta) + f64::EPSILON,
+        ]
     }
 }
 
 /// What the set-up pass gathers, from the raw z (multiply the sums by 1/Σz).
 struct SetUp {
-    /// No value is NaN, infinite or negative.
+    /// No value is NaN, infinite or negative (when false, possibly only an overflowing sum:
+    /// the ordered validation decides).
     valid: bool,
     /// Σz.
     sum: f64,
@@ -587,52 +600,51 @@ struct SetUp {
     f0: f64,
     /// Σ zᵢ(Kᵢ − 1)/Kᵢ = F(1), over zᵢ > 0.
     f1: f64,
-    /// F(½), F′(½), Σ zᵢ rᵢ³ = F″(½)/2 and Σ|terms of F(½)|, with rᵢ = (Kᵢ − 1)/(1 + ½(Kᵢ − 1)).
-    half: [f64; 4],
+    /// F(½), F′(½) and Σ zᵢ rᵢ³ = F″(½)/2, with rᵢ = (Kᵢ − 1)/(1 + ½(Kᵢ − 1)).
+    half: [f64; 3],
     /// The extreme K-values over zᵢ > 0.
     k_min: f64,
     k_max: f64,
-    /// [`bounds`] combined: [lower β, upper β, lower γ, upper γ].
+    /// [`bounds`] combined, from the raw z: [lower β, upper β, lower γ, upper γ].
     window: [f64; 4],
 }
 
 impl SetUp {
-    /// One pass over the components, two at a time.
+    /// One pass over the components, two at a time. Few running sums, so that they all stay
+    /// in registers.
     fn gather(z: &[f64], k: &[f64]) -> Self {
         let u = window_margin(z.len());
         let (zero, one) = (f64x2::ZERO, f64x2::ONE);
-        // Σ (zᵢ·0 + Kᵢ·0) is 0, or NaN if any value is NaN or infinite.
-        let mut check = zero;
-        // The least zᵢ or Kᵢ (or 0).
+        // The least zᵢ or Kᵢ (or 0): negative values. NaN or infinite values make Σz or F(0)
+        // NaN or infinite (0·∞ is NaN).
         let mut least = zero;
         let (mut sum, mut f0, mut f1) = (zero, zero, zero);
-        let mut half = [zero; 4];
+        let mut half = [zero; 3];
         let (mut k_min, mut k_max) = (f64x2::splat(f64::INFINITY), zero);
         let mut window = Window::new();
         in_pairs(z, k, |z, k| {
-            check += z * zero + k * zero;
             least = least.fast_min(z.fast_min(k));
             let t = k - one;
             sum += z;
             f0 += z * t;
             let present = z.simd_gt(zero);
             f1 += present.select(z * t / k, zero);
-            let r = t / (f64x2::HALF * (k + one));
+            let r = (t + t) / (k + one);
             let term = z * r;
             half[0] += term;
             half[1] -= term * r;
             half[2] += term * r * r;
-            half[3] += term.abs();
             k_min = k_min.fast_min(present.select(k, f64x2::splat(f64::INFINITY)));
             k_max = k_max.fast_max(present.select(k, zero));
             window.add(bounds(z, k, one / t, u));
         });
         let [k_min, k_max] = [k_min.to_array(), k_max.to_array()];
         let least = least.to_array();
+        let (sum, f0) = (sum.reduce_add(), f0.reduce_add());
         Self {
-            valid: check.reduce_add() == 0.0 && least[0] >= 0.0 && least[1] >= 0.0,
-            sum: sum.reduce_add(),
-            f0: f0.reduce_add(),
+            valid: sum.is_finite() && f0.is_finite() && least[0] >= 0.0 && least[1] >= 0.0,
+            sum,
+            f0,
             f1: f1.reduce_add(),
             half: half.map(f64x2::reduce_add),
             k_min: k_min[0].min(k_min[1]),
@@ -794,12 +806,17 @@ impl<'a> Oriented<'a> {
                     rate * rate
                 };
                 let by_rate = step.abs() <= RATE_STEP * s && step.abs() * rate_p <= 0.25 * f64::EPSILON * s;
-                if candidate.is_finite() && (step.abs() <= 2.0 * f64::EPSILON * s || at_round_off || by_rate) {
+                let tiny = step.abs() <= 2.0 * f64::EPSILON * s || by_rate;
+                // A tiny step is believed only if G agrees that s is near its root (|G/G′|
+                // small against s): close to a pole, H′ is a difference of large terms and
+                // its round-off can make a far-off point look converged.
+                let trusted = g.abs() <= 1e-3 * s * dg.abs();
+                if candidate.is_finite() && (at_round_off || (tiny && trusted)) {
                     // Converged; the step may round onto the bracket end just moved to s.
                     s = candidate.clamp(lo, hi);
                     break;
                 }
-                if candidate > lo && candidate < hi && candidate.is_finite() {
+                if candidate > lo && candidate < hi && candidate.is_finite() && !tiny {
                     (last_step, last_halley) = (step, halley);
                     candidate
                 } else {
