@@ -4,12 +4,14 @@
 //! - the bubble temperature against a plain bisection on the bubble sum in T, to the same
 //!   tolerance, written here;
 //! - the heater duty against two T–P flashes (the enthalpy table and path spread are the rest);
-//! - the duty-specified flash against the heater duty.
+//! - the duty-specified flash against the heater duty;
+//! - the hot-loop `DutyCalculator` (the duty and states only: no table, path spread or
+//!   warnings, no allocation) against the full functions, which return all of them.
 //!
 //! The mixture is n = 10 library hydrocarbons (an invented feed).
 
 use criterion::{Criterion, criterion_group, criterion_main};
-use flashduty::energy::{DutyOptions, Stream, StreamState, heater_duty, outlet_for_duty};
+use flashduty::energy::{DutyCalculator, DutyOptions, Stream, StreamState, heater_duty, outlet_for_duty};
 use flashduty::equilibrium::{FlashSpec, KValueModel, KValues, Raoult, TpFlasher, flash};
 use flashduty::fit::{DataPoint, fit_antoine};
 use flashduty::properties::{Antoine, VapourPressure};
@@ -141,12 +143,23 @@ fn bench(c: &mut Criterion) {
             black_box((a, b2))
         })
     });
-    g.bench_function("heater duty (T-P to T-P)", |b| {
-        b.iter(|| heater_duty(&stream, black_box(inlet), outlet, o))
+    g.bench_function(
+        "heater duty (T-P to T-P), full result with table and path spread",
+        |b| b.iter(|| heater_duty(&stream, black_box(inlet), outlet, o)),
+    );
+    let mut calc = DutyCalculator::new(&stream, o).expect("calculator");
+    g.bench_function("heater duty (T-P to T-P), duty and states only (DutyCalculator)", |b| {
+        b.iter(|| calc.duty(black_box(inlet), outlet).map(|s| s.duty_w))
     });
     let q = Power::new("duty", duty).expect("duty");
-    g.bench_function("duty-specified flash", |b| {
+    g.bench_function("duty-specified flash, full result with table and path spread", |b| {
         b.iter(|| outlet_for_duty(&stream, black_box(inlet), q, p, o))
+    });
+    g.bench_function("duty-specified flash, outlet state only (DutyCalculator)", |b| {
+        b.iter(|| {
+            calc.outlet_for_duty(black_box(inlet), q, p)
+                .map(|s| s.outlet.temperature_k)
+        })
     });
     g.finish();
 }

@@ -8,6 +8,12 @@
 //! Positive duty is heat into the stream (a heater or vaporiser); negative is heat out of
 //! it (a cooler or condenser).
 //!
+//! [`heater_duty`], [`outlet_for_duty`], [`heating_curve`] and [`path_spread`] return
+//! everything needed to check a result (the enthalpy table, the duty along every
+//! vaporisation path, warnings). Plant software that needs many duties of one stream uses
+//! [`DutyCalculator`]: built once, it gives the same duties and states without allocating,
+//! and without that audit trail.
+//!
 //! ```
 //! use flashduty::energy::{heater_duty, DutyOptions, Stream, StreamState};
 //! use flashduty::units::{MolarFlow, Pressure, Temperature};
@@ -24,21 +30,20 @@
 //! assert!((table - r.duty_w).abs() < 1e-6 * r.duty_w);
 //! ```
 
+mod calc;
+mod duty_calculator;
 mod enthalpy;
 
-use enthalpy::pure_enthalpy;
+pub use duty_calculator::{DutyCalculator, DutySummary, StateSummary};
 pub use enthalpy::{EnthalpyModel, EnthalpySplit, ReferencePhase, ReferenceState, VaporisationPath};
 
-use crate::equilibrium::{
-    FlashError, FlashResult, FlashSpec, KValueModel, KValues, Raoult, SEARCH_MAX_TEMPERATURE_K,
-    SEARCH_MIN_TEMPERATURE_K, flash, flash_bracketed,
-};
+use crate::equilibrium::{FlashError, FlashResult, FlashSpec};
 use crate::library::{Library, UnknownComponent};
 use crate::properties::Component;
 use crate::rachford_rice::{Phase, RachfordRiceError};
-use crate::solve::{bracketed_newton, expand_bracket};
 use crate::units::{MassFlow, MolarFlow, Power, Pressure, Temperature, UnitError};
-use crate::warnings::{Warning, push_unique};
+use crate::warnings::Warning;
+use calc::{Calc, Solved};
 use serde::Serialize;
 use std::sync::Arc;
 
@@ -236,6 +241,10 @@ pub enum StreamState {
 }
 
 impl StreamState {
+    fn is_temperature_pressure(self) -> bool {
+        matches!(self, StreamState::TemperaturePressure { .. })
+    }
+
     fn spec(self) -> FlashSpec {
         match self {
             StreamState::TemperaturePressure { temperature, pressure } => {
@@ -342,384 +351,17 @@ pub struct DutyResult {
     pub warnings: Vec<Warning>,
 }
 
-/// The calculator: a stream's K-value and enthalpy models together.
-struct Calc<'a> {
-    stream: &'a Stream,
-    k_model: Raoult,
-    h: EnthalpyModel,
-}
-
-impl<'a> Calc<'a> {
-    fn new(stream: &'a Stream, options: DutyOptions) -> Self {
-        Self {
-            stream,
-            k_model: Raoult::new(stream.components.clone()),
-            h: EnthalpyModel::new(stream.components.clone(), options.reference, options.path),
-        }
-    }
-
-    /// Per mole of stream: Σ over components and phases of amount × enthalpy.
-    fn enthalpy(&self, r: &FlashResult) -> f64 {
-        self.enthalpy_with(self.h.path(), r)
-    }
-
-    fn enthalpy_with(&self, path: VaporisationPath, r: &FlashResult) -> f64 {
-        let reference = self.h.reference();
-        let mut total = 0.0;
-        for (i, c) in self.stream.components.iter().enumerate() {
-            let (l, v) = amounts(r, i, &self.stream.z);
-            if l > 0.0 {
-                total += l * pure_enthalpy(c, Phase::Liquid, r.temperature_k, reference, path).total_j_per_mol();
-            }
-            if v > 0.0 {
-                total += v * pure_enthalpy(c, Phase::Vapour, r.temperature_k, reference, path).total_j_per_mol();
-            }
-        }
-        total
-    }
-
-    /// Appends the state's rows to the table and returns its enthalpy per mole of stream.
-    fn rows(
-        &self,
-        state: &'static str,
-        r: &FlashResult,
-        out: &mut Vec<EnthalpyRow>,
-        warnings: &mut Vec<Warning>,
-    ) -> f64 {
-        let flow = self.stream.flow.mol_per_s();
-        let mut total = 0.0;
-        for (i, c) in self.stream.components.iter().enumerate() {
-            let (l, v) = amounts(r, i, &self.stream.z);
-            for (amount, phase) in [(l, Phase::Liquid), (v, Phase::Vapour)] {
-                if amount <= 0.0 {
-                    continue;
-                }
-                let split = self.h.pure(i, phase, r.temperature_k);
-                self.h.warnings(i, phase, r.temperature_k, warnings);
-                let h = split.total_j_per_mol();
-                out.push(EnthalpyRow {
-                    state,
-                    component: c.name().to_string(),
-                    phase,
-                    flow_mol_s: amount * flow,
-                    enthalpy_j_per_mol: h,
-                    liquid_sensible_j_per_mol: split.liquid_sensible_j_per_mol,
-                    latent_j_per_mol: split.latent_j_per_mol,
-                    vapour_sensible_j_per_mol: split.vapour_sensible_j_per_mol,
-                    enthalpy_flow_w: amount * flow * h,
-                });
-                total += amount * h;
-            }
-        }
-        total
-    }
-
-    fn flash(&self, state: StreamState) -> Result<FlashResult, EnergyError> {
-        Ok(flash(&self.k_model, &self.stream.z, state.spec())?)
-    }
-
-    /// The duty along every path; `selected_duty_w` is the one already known for the
-    /// model's own path.
-    fn path_spread(&self, inlet: &FlashResult, outlet: &FlashResult, selected_duty_w: f64) -> PathSpread {
-        let flow = self.stream.flow.mol_per_s();
-        let duty = |path| {
-            if path == self.h.path() {
-                selected_duty_w
-            } else {
-                flow * (self.enthalpy_with(path, outlet) - self.enthalpy_with(path, inlet))
-            }
-        };
-        let [a, b, c] = VaporisationPath::ALL.map(duty);
-        let max = a.max(b).max(c);
-        let min = a.min(b).min(c);
-        let scale = a.abs().max(b.abs()).max(c.abs());
-        PathSpread {
-            boiling_point_w: a,
-            stream_temperature_w: b,
-            reference_temperature_w: c,
-            spread_w: max - min,
-            relative: if scale > 0.0 { (max - min) / scale } else { 0.0 },
-        }
-    }
-
-    /// The stream enthalpy (J/mol, the same sum as [`Self::enthalpy`]) and its analytic
-    /// derivative dH/dT at constant pressure (J/(mol·K)) at a T–P state.
-    ///
-    /// H = Σ zᵢ hᴸᵢ + Σ vᵢ (hⱽᵢ − hᴸᵢ) with vᵢ = β Kᵢ zᵢ / dᵢ, dᵢ = 1 − β + β Kᵢ, so
-    /// dvᵢ/dT = (zᵢ/dᵢ)(Kᵢ/dᵢ) (dβ/dT + β (1 − β) ∂ln Kᵢ/∂T), with dβ/dT from the flash.
-    fn enthalpy_and_slope(&self, r: &FlashResult) -> (f64, f64) {
-        let n = self.stream.components.len();
-        let t = r.temperature_k;
-        let (beta, lf) = (r.vapour_fraction, r.liquid_fraction);
-        let two_phase = r.phase == Phase::TwoPhase;
-        let mut kv = KValues::new(if two_phase { n } else { 0 });
-        if two_phase {
-            self.k_model.k_values(t, r.pressure_pa, &[], &[], &mut kv);
-        }
-        let dbeta_dt = r.sensitivity.map_or(0.0, |s| s.dvapour_fraction_dt_per_k);
-        let (mut h, mut slope) = (0.0, 0.0);
-        for i in 0..n {
-            let z = self.stream.z[i];
-            if z == 0.0 {
-                continue;
-            }
-            let (l, v) = amounts(r, i, &self.stream.z);
-            let h_liquid = (l > 0.0 || two_phase).then(|| self.h.pure(i, Phase::Liquid, t).total_j_per_mol());
-            let h_vapour = (v > 0.0 || two_phase).then(|| self.h.pure(i, Phase::Vapour, t).total_j_per_mol());
-            if l > 0.0 {
-                h += l * h_liquid.unwrap_or(0.0);
-            }
-            if v > 0.0 {
-                h += v * h_vapour.unwrap_or(0.0);
-            }
-            slope += l * self.h.pure_slope(i, Phase::Liquid, t) + v * self.h.pure_slope(i, Phase::Vapour, t);
-            if let (true, Some(hl), Some(hv)) = (two_phase, h_liquid, h_vapour) {
-                let k = r.k_values[i];
-                let d = lf + beta * k;
-                let dv = (z / d) * (k / d) * (dbeta_dt + beta * lf * kv.dln_k_dt[i]);
-                slope += dv * (hv - hl);
-            }
-        }
-        (h, slope)
-    }
-
-    fn result(&self, inlet: FlashResult, outlet: FlashResult, outlet_tp: bool, options: DutyOptions) -> DutyResult {
-        let flow = self.stream.flow.mol_per_s();
-        let mut table = Vec::with_capacity(4 * self.stream.components.len());
-        let mut warnings = Vec::new();
-        for w in inlet.warnings.iter().chain(&outlet.warnings) {
-            push_unique(&mut warnings, w.clone());
-        }
-        // The table's rows give the stream enthalpies (the same sums as `enthalpy`).
-        let h_in = self.rows("inlet", &inlet, &mut table, &mut warnings);
-        let h_out = self.rows("outlet", &outlet, &mut table, &mut warnings);
-        let duty_w = flow * (h_out - h_in);
-        let dq = outlet_tp.then(|| flow * self.enthalpy_and_slope(&outlet).1);
-        let spread = self.path_spread(&inlet, &outlet, duty_w);
-        DutyResult {
-            duty_w,
-            flow_mol_s: flow,
-            inlet_enthalpy_j_per_mol: h_in,
-            outlet_enthalpy_j_per_mol: h_out,
-            table,
-            dduty_dt_out_w_per_k: dq,
-            path_spread: spread,
-            options,
-            warnings,
-            inlet,
-            outlet,
-        }
-    }
-
-    /// The outlet state at pressure `p` whose enthalpy is `target` J/mol, with the bubble
-    /// and dew points at `p` (computed once by the caller).
-    fn state_for_enthalpy(
-        &self,
-        target: f64,
-        p: Pressure,
-        bubble: &FlashResult,
-        dew: Option<&FlashResult>,
-        duty_w: f64,
-    ) -> Result<FlashResult, EnergyError> {
-        let z = &self.stream.z;
-        let h_bub = self.enthalpy(bubble);
-        let out_of_reach = || EnergyError::DutyOutOfReach { duty_w };
-        let single = |phase: Phase, lo_t: f64, hi_t: f64| -> Result<FlashResult, EnergyError> {
-            let h = |t: f64| self.h.phase_enthalpy(phase, z, t) - target;
-            let bracket = expand_bracket(h, lo_t, hi_t, SEARCH_MIN_TEMPERATURE_K, SEARCH_MAX_TEMPERATURE_K)
-                .ok_or_else(out_of_reach)?;
-            let root = bracketed_newton(
-                |t| {
-                    let slope: f64 = (0..z.len()).map(|i| z[i] * self.h.pure_slope(i, phase, t)).sum();
-                    (h(t), slope)
-                },
-                bracket.lo,
-                bracket.hi,
-                bracket.secant(),
-                1e-10,
-            );
-            self.tp_flash(root.x, p)
-        };
-        if target <= h_bub {
-            let tb = bubble.temperature_k;
-            // A T–P flash just below the bubble point is all liquid; clamp there.
-            let r = single(Phase::Liquid, tb - 10.0, tb)?;
-            return Ok(force_single(r, Phase::Liquid, z));
-        }
-        let Some(dew) = dew else {
-            return self.two_phase(target, p, bubble.temperature_k, SEARCH_MAX_TEMPERATURE_K);
-        };
-        let h_dew = self.enthalpy(dew);
-        if target >= h_dew {
-            let td = dew.temperature_k;
-            let r = single(Phase::Vapour, td, td + 10.0)?;
-            return Ok(force_single(r, Phase::Vapour, z));
-        }
-        let (t_bub, t_dew) = (bubble.temperature_k, dew.temperature_k);
-        if t_dew - t_bub > WIDE_TWO_PHASE_K {
-            // Start where the enthalpy would be if it ran linearly from bubble to dew point.
-            let fraction = ((target - h_bub) / (h_dew - h_bub)).clamp(0.01, 0.99);
-            let start = t_bub + fraction * (t_dew - t_bub);
-            return self.two_phase_on_temperature(target, p, t_bub, t_dew, start);
-        }
-        self.two_phase(target, p, t_bub, t_dew)
-    }
-
-    /// Solves on temperature between the bubble and dew points, Newton with the analytic
-    /// dH/dT inside the bracket: used where the two-phase region spans more than
-    /// [`WIDE_TWO_PHASE_K`], so that temperature pins the vapour fraction down well.
-    fn two_phase_on_temperature(
-        &self,
-        target: f64,
-        p: Pressure,
-        t_bub: f64,
-        t_dew: f64,
-        start: f64,
-    ) -> Result<FlashResult, EnergyError> {
-        let mut failure: Option<EnergyError> = None;
-        let root = bracketed_newton(
-            |t| match self.tp_flash(t, p) {
-                Ok(r) => {
-                    let (h, slope) = self.enthalpy_and_slope(&r);
-                    (h - target, slope)
-                }
-                Err(e) => {
-                    failure.get_or_insert(e);
-                    (0.0, 1.0)
-                }
-            },
-            t_bub,
-            t_dew,
-            start,
-            1e-12,
-        );
-        if let Some(e) = failure {
-            return Err(e);
-        }
-        self.tp_flash(root.x, p)
-    }
-
-    /// The T–P flash of the stream at `t_k` and `p`.
-    fn tp_flash(&self, t_k: f64, p: Pressure) -> Result<FlashResult, EnergyError> {
-        let spec = FlashSpec::TemperaturePressure {
-            temperature: Temperature::new("T", t_k)?,
-            pressure: p,
-        };
-        Ok(flash(&self.k_model, &self.stream.z, spec)?)
-    }
-
-    /// Solves on the vapour fraction between the bubble and dew points: temperature may be
-    /// flat there (pure components, azeotrope-like narrow boilers), vapour fraction never is.
-    fn two_phase(&self, target: f64, p: Pressure, t_bub: f64, t_dew: f64) -> Result<FlashResult, EnergyError> {
-        let (lo, hi) = (0.0, 1.0);
-        let z = &self.stream.z;
-        let at = |beta: f64| -> Result<FlashResult, EnergyError> {
-            let spec = FlashSpec::PressureVapourFraction {
-                pressure: p,
-                vapour_fraction: beta.clamp(0.0, 1.0),
-            };
-            Ok(flash_bracketed(&self.k_model, z, spec, Some((t_bub, t_dew)))?)
-        };
-        let mut failure: Option<EnergyError> = None;
-        let beta = {
-            let mut f = |beta: f64| match at(beta) {
-                Ok(r) => self.enthalpy(&r) - target,
-                Err(e) => {
-                    // Stop the search; the error is returned below.
-                    failure.get_or_insert(e);
-                    0.0
-                }
-            };
-            match roots::find_root_brent(lo, hi, &mut f, &mut BrentTolerance) {
-                Ok(b) => b,
-                Err(_) => {
-                    // Brent can only fail here by running out of steps: finish by bisection.
-                    let (mut a, mut b) = (lo, hi);
-                    for _ in 0..200 {
-                        let m = 0.5 * (a + b);
-                        if f(m) < 0.0 {
-                            a = m
-                        } else {
-                            b = m
-                        }
-                        if b - a < 1e-15 {
-                            break;
-                        }
-                    }
-                    0.5 * (a + b)
-                }
-            }
-        };
-        if let Some(e) = failure {
-            return Err(e);
-        }
-        at(beta)
-    }
-}
-
-/// Above this width of the two-phase region (dew minus bubble temperature), the
-/// duty-specified flash solves on temperature; below it, on vapour fraction.
-const WIDE_TWO_PHASE_K: f64 = 1.0;
-
-/// Brent's tolerance for the vapour fraction in the duty-specified flash.
-struct BrentTolerance;
-
-impl roots::Convergency<f64> for BrentTolerance {
-    fn is_root_found(&mut self, y: f64) -> bool {
-        y == 0.0
-    }
-    fn is_converged(&mut self, x1: f64, x2: f64) -> bool {
-        (x1 - x2).abs() <= 1e-13
-    }
-    fn is_iteration_limit_reached(&mut self, iter: usize) -> bool {
-        iter >= 200
-    }
-}
-
-/// Amounts of component `i` in the liquid and vapour, per mole of stream.
-fn amounts(r: &FlashResult, i: usize, z: &[f64]) -> (f64, f64) {
-    match r.phase {
-        Phase::Liquid => (z[i], 0.0),
-        Phase::Vapour => (0.0, z[i]),
-        Phase::TwoPhase => {
-            let l = r.liquid.as_ref().map_or(0.0, |x| r.liquid_fraction * x[i]);
-            let v = r.vapour.as_ref().map_or(0.0, |y| r.vapour_fraction * y[i]);
-            (l, v)
-        }
-    }
-}
-
-/// A state found on the single-phase side of a bubble or dew point; round-off can put
-/// its T–P flash a hair into the two-phase region, where β is then 1e-15: report it as
-/// the single phase it is.
-fn force_single(mut r: FlashResult, phase: Phase, z: &[f64]) -> FlashResult {
-    if r.phase != phase {
-        r.phase = phase;
-        r.sensitivity = None;
-        match phase {
-            Phase::Liquid => {
-                r.vapour_fraction = 0.0;
-                r.liquid_fraction = 1.0;
-                r.liquid = Some(z.to_vec());
-                r.vapour = None;
-            }
-            _ => {
-                r.vapour_fraction = 1.0;
-                r.liquid_fraction = 0.0;
-                r.vapour = Some(z.to_vec());
-                r.liquid = None;
-            }
-        }
-    }
-    r
-}
-
 /// The duty to take `stream` from `inlet` to `outlet`, with both phase splits and the
 /// enthalpy table.
 ///
+/// For many duties of one stream in a loop, [`DutyCalculator`] gives the same numbers
+/// without the table, path spread and warnings, at a fraction of the cost.
+///
 /// # Errors
 /// [`EnergyError::Flash`] when either state cannot be flashed (a vapour fraction outside
-/// [0, 1], no dew point, ...).
+/// [0, 1], no dew point, ...); [`EnergyError::Unit`] for a reference temperature that is not
+/// finite and positive, or a state temperature outside 1 to 10 000 K (the range over which
+/// the energy calculations work; the correlations can overflow beyond it).
 ///
 /// ```
 /// use flashduty::energy::{heater_duty, DutyOptions, Stream, StreamState};
@@ -740,11 +382,10 @@ pub fn heater_duty(
     outlet: StreamState,
     options: DutyOptions,
 ) -> Result<DutyResult, EnergyError> {
-    let calc = Calc::new(stream, options);
-    let inlet_r = calc.flash(inlet)?;
-    let outlet_r = calc.flash(outlet)?;
-    let outlet_tp = matches!(outlet, StreamState::TemperaturePressure { .. });
-    Ok(calc.result(inlet_r, outlet_r, outlet_tp, options))
+    let (calc, mut inlet_s, mut outlet_s) = Calc::with_states(stream, options)?;
+    calc.flash_state("inlet", inlet, &mut inlet_s)?;
+    calc.flash_state("outlet", outlet, &mut outlet_s)?;
+    Ok(calc.result(inlet_s, outlet_s, outlet.is_temperature_pressure()))
 }
 
 /// The duty-specified flash: the outlet state at `outlet_pressure` after `duty` is added
@@ -755,9 +396,14 @@ pub fn heater_duty(
 /// as a fallback), so pure components and narrow-boiling mixtures, whose temperature is
 /// flat across the two-phase region, are handled. It always terminates.
 ///
+/// Each step of the temperature search is one K-value evaluation and one Rachford–Rice
+/// solve in reused buffers, with dH/dT from the same K-values; the full result is built
+/// once, at the end. [`DutyCalculator::outlet_for_duty`] runs the same search without it.
+///
 /// # Errors
-/// [`EnergyError::Flash`] as [`heater_duty`]; [`EnergyError::DutyOutOfReach`] when no
-/// temperature between 1 K and 10 000 K gives the enthalpy.
+/// [`EnergyError::Flash`] and [`EnergyError::Unit`] as [`heater_duty`];
+/// [`EnergyError::DutyOutOfReach`] when no temperature between 1 K and 10 000 K gives the
+/// enthalpy.
 ///
 /// ```
 /// use flashduty::energy::{heater_duty, outlet_for_duty, DutyOptions, Stream, StreamState};
@@ -776,26 +422,12 @@ pub fn outlet_for_duty(
     outlet_pressure: Pressure,
     options: DutyOptions,
 ) -> Result<DutyResult, EnergyError> {
-    let calc = Calc::new(stream, options);
-    let inlet_r = calc.flash(inlet)?;
-    let target = calc.enthalpy(&inlet_r) + duty.watts() / stream.flow.mol_per_s();
-    let (bubble, dew) = saturation(&calc, outlet_pressure)?;
-    let outlet_r = calc.state_for_enthalpy(target, outlet_pressure, &bubble, dew.as_ref(), duty.watts())?;
-    let mut result = calc.result(inlet_r, outlet_r, true, options);
+    let (calc, mut inlet_s, mut outlet_s) = Calc::with_states(stream, options)?;
+    calc.outlet_for_duty(inlet, duty, outlet_pressure, &mut inlet_s, &mut outlet_s)?;
+    let mut result = calc.result(inlet_s, outlet_s, true);
     // Report the duty asked for; the computed one agrees to the solver tolerance.
     result.duty_w = duty.watts();
     Ok(result)
-}
-
-fn saturation(calc: &Calc, p: Pressure) -> Result<(FlashResult, Option<FlashResult>), EnergyError> {
-    let z = &calc.stream.z;
-    let bubble = flash(&calc.k_model, z, FlashSpec::BubbleTemperature { pressure: p })?;
-    let dew = match flash(&calc.k_model, z, FlashSpec::DewTemperature { pressure: p }) {
-        Ok(d) => Some(d),
-        Err(FlashError::NoDewPoint { .. }) => None,
-        Err(e) => return Err(e.into()),
-    };
-    Ok((bubble, dew))
 }
 
 /// One point of a heating or cooling curve.
@@ -864,30 +496,31 @@ pub fn heating_curve(
     if points < 2 {
         return Err(EnergyError::TooFewPoints { value: points });
     }
-    let calc = Calc::new(stream, options);
-    let inlet_r = calc.flash(inlet)?;
-    let outlet_r = calc.flash(outlet)?;
-    let p = Pressure::new("P", outlet_r.pressure_pa)?;
+    let (calc, mut inlet_s, mut outlet_s) = Calc::with_states(stream, options)?;
+    let mut work = Solved::new(calc.component_count());
+    calc.flash_state("inlet", inlet, &mut inlet_s)?;
+    calc.flash_state("outlet", outlet, &mut outlet_s)?;
+    let p = Pressure::new("P", outlet_s.state.p)?;
     let flow = stream.flow.mol_per_s();
-    let h_in = calc.enthalpy(&inlet_r);
-    let total = flow * (calc.enthalpy(&outlet_r) - h_in);
-    let (bubble, dew) = saturation(&calc, p)?;
+    let h_in = calc.enthalpy(&inlet_s);
+    let total = flow * (calc.enthalpy(&outlet_s) - h_in);
+    let t_bub = calc.bubble_temperature(p, &mut work.buffers)?;
+    let t_dew = calc.dew_temperature(p, &mut work.buffers)?;
     let mut warnings = Vec::new();
     let mut out = Vec::with_capacity(points + 2);
     for k in 0..points {
         let q = total * k as f64 / (points - 1) as f64;
         let r = if k + 1 == points {
-            outlet_r.clone()
+            &outlet_s
         } else {
-            calc.state_for_enthalpy(h_in + q / flow, p, &bubble, dew.as_ref(), q)?
+            calc.state_for_enthalpy(h_in + q / flow, p, t_bub, Some(t_dew), q, &mut work)?;
+            &work
         };
-        for w in &r.warnings {
-            push_unique(&mut warnings, w.clone());
-        }
+        calc.flash_warnings(r, &mut warnings);
         out.push(CurvePoint {
-            temperature_k: r.temperature_k,
+            temperature_k: r.state.t,
             duty_w: q,
-            vapour_fraction: r.vapour_fraction,
+            vapour_fraction: r.state.beta,
             breakpoint: "",
         });
     }
@@ -898,15 +531,15 @@ pub fn heating_curve(
             q < 0.0 && q > total
         }
     };
-    let mut breaks = vec![(&bubble, "bubble", 0.0)];
-    if let Some(d) = &dew {
-        breaks.push((d, "dew", 1.0));
+    let mut breaks = vec![(t_bub, Phase::Liquid, "bubble", 0.0)];
+    if let Some(t) = t_dew {
+        breaks.push((t, Phase::Vapour, "dew", 1.0));
     }
-    for (r, name, beta) in breaks {
-        let q = flow * (calc.enthalpy(r) - h_in);
+    for (t, phase, name, beta) in breaks {
+        let q = flow * (calc.saturated_enthalpy(phase, t) - h_in);
         if inside(q) {
             out.push(CurvePoint {
-                temperature_k: r.temperature_k,
+                temperature_k: t,
                 duty_w: q,
                 vapour_fraction: beta,
                 breakpoint: name,
@@ -916,8 +549,8 @@ pub fn heating_curve(
     out.sort_by(|a, b| (a.duty_w.abs()).total_cmp(&b.duty_w.abs()));
     Ok(Curve {
         points: out,
-        bubble_temperature_k: bubble.temperature_k,
-        dew_temperature_k: dew.map(|d| d.temperature_k),
+        bubble_temperature_k: t_bub,
+        dew_temperature_k: t_dew,
         pressure_pa: p.pascal(),
         duty_w: total,
         warnings,

@@ -216,24 +216,7 @@ impl FlashSpec {
 /// assert!((r.pressure_pa / 101_418.0 - 1.0).abs() < 0.005);
 /// ```
 pub fn flash<M: KValueModel + ?Sized>(model: &M, z: &[f64], spec: FlashSpec) -> Result<FlashResult, FlashError> {
-    flash_bracketed(model, z, spec, None)
-}
-
-/// [`flash`] with the bubble and dew temperatures already known (for a
-/// [`FlashSpec::PressureVapourFraction`] search), so repeated flashes at one pressure do
-/// not search for them again.
-pub(crate) fn flash_bracketed<M: KValueModel + ?Sized>(
-    model: &M,
-    z: &[f64],
-    spec: FlashSpec,
-    t_bracket: Option<(f64, f64)>,
-) -> Result<FlashResult, FlashError> {
-    if let FlashSpec::TemperatureVapourFraction { vapour_fraction, .. }
-    | FlashSpec::PressureVapourFraction { vapour_fraction, .. } = spec
-        && !(0.0..=1.0).contains(&vapour_fraction)
-    {
-        return Err(FlashError::VapourFractionOutOfRange { value: vapour_fraction });
-    }
+    check_vapour_fraction(spec)?;
     let n = model.component_count();
     if z.len() != n {
         return Err(FlashError::ComponentCount {
@@ -250,6 +233,101 @@ pub(crate) fn flash_bracketed<M: KValueModel + ?Sized>(
         normalised_z = z.iter().map(|v| v / sum).collect();
         &normalised_z
     };
+    let mut buffers = FlashBuffers::new(n);
+    let state = flash_into(model, z, spec, None, &mut buffers)?;
+    Ok(flash_result(model, z, &state, buffers))
+}
+
+/// A vapour fraction outside [0, 1] is refused before anything else.
+fn check_vapour_fraction(spec: FlashSpec) -> Result<(), FlashError> {
+    let value = match spec {
+        FlashSpec::TemperatureVapourFraction { vapour_fraction, .. }
+        | FlashSpec::PressureVapourFraction { vapour_fraction, .. } => vapour_fraction,
+        _ => return Ok(()),
+    };
+    if (0.0..=1.0).contains(&value) {
+        Ok(())
+    } else {
+        Err(FlashError::VapourFractionOutOfRange { value })
+    }
+}
+
+/// The K-values and phase compositions of one flash, in buffers a caller can reuse: the
+/// working storage of [`flash`], and of the energy layer's hot loops.
+#[derive(Debug, Clone)]
+pub(crate) struct FlashBuffers {
+    /// K-values and their derivatives; after [`flash_into`], at the solved state.
+    pub kv: KValues,
+    /// Liquid mole fractions (meaningful where [`SolvedState::has_liquid`]).
+    pub x: Vec<f64>,
+    /// Vapour mole fractions (meaningful where [`SolvedState::has_vapour`]).
+    pub y: Vec<f64>,
+}
+
+impl FlashBuffers {
+    /// Buffers for `n` components.
+    pub fn new(n: usize) -> Self {
+        Self {
+            kv: KValues::new(n),
+            x: vec![0.0; n],
+            y: vec![0.0; n],
+        }
+    }
+}
+
+/// A solved flash whose K-values and compositions are in a [`FlashBuffers`].
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub(crate) struct SolvedState {
+    /// Temperature, K.
+    pub t: f64,
+    /// Pressure, Pa.
+    pub p: f64,
+    /// The phase (`Liquid` at a bubble point, `Vapour` at a dew point).
+    pub phase: Phase,
+    /// β.
+    pub beta: f64,
+    /// 1 − β, without cancellation.
+    pub liquid_fraction: f64,
+    /// Whether the buffers' x is a liquid composition to report.
+    pub has_liquid: bool,
+    /// Whether the buffers' y is a vapour composition to report.
+    pub has_vapour: bool,
+    /// Steps of every search and of the Rachford–Rice solver.
+    pub iterations: u32,
+    /// Evaluations of the K-value model.
+    pub evaluations: u32,
+}
+
+impl SolvedState {
+    /// A placeholder before anything is solved: all liquid at 0 K, no compositions.
+    pub const UNSET: SolvedState = SolvedState {
+        t: 0.0,
+        p: 0.0,
+        phase: Phase::Liquid,
+        beta: 0.0,
+        liquid_fraction: 1.0,
+        has_liquid: false,
+        has_vapour: false,
+        iterations: 0,
+        evaluations: 0,
+    };
+}
+
+/// The flash of [`flash`] into caller-owned buffers, without the result's allocations:
+/// on success the buffers hold the K-values at the solved state and its compositions.
+///
+/// The caller has checked that `z` is a valid feed for `model` (as [`flash`] does) and
+/// normalised it the way [`flash`] does, and sized `buffers` for the model. For a
+/// composition-independent model this allocates nothing. `t_bracket` gives the bubble and
+/// dew temperatures when already known (used by [`FlashSpec::PressureVapourFraction`]).
+pub(crate) fn flash_into<M: KValueModel + ?Sized>(
+    model: &M,
+    z: &[f64],
+    spec: FlashSpec,
+    t_bracket: Option<(f64, f64)>,
+    buffers: &mut FlashBuffers,
+) -> Result<SolvedState, FlashError> {
+    check_vapour_fraction(spec)?;
     // Composition-independent models never read the phase compositions.
     let start = if model.is_composition_dependent() {
         z.to_vec()
@@ -259,7 +337,7 @@ pub(crate) fn flash_bracketed<M: KValueModel + ?Sized>(
     let mut solver = Solver {
         model,
         z,
-        kv: KValues::new(n),
+        buffers,
         liquid: start.clone(),
         vapour: start,
         last_state: None,
@@ -275,22 +353,128 @@ pub(crate) fn flash_bracketed<M: KValueModel + ?Sized>(
     for _ in 0..rounds {
         let state = solver.solve_frozen(spec)?;
         if !model.is_composition_dependent() {
-            return Ok(solver.finish(state));
+            return Ok(solver.done(state));
         }
-        let new_liquid = normalised(state.x.as_deref().unwrap_or(z));
-        let new_vapour = normalised(state.y.as_deref().unwrap_or(z));
+        let new_liquid = normalised(if state.has_liquid { &solver.buffers.x } else { z });
+        let new_vapour = normalised(if state.has_vapour { &solver.buffers.y } else { z });
         let change = max_change(&solver.liquid, &new_liquid).max(max_change(&solver.vapour, &new_vapour));
         solver.liquid = new_liquid;
         solver.vapour = new_vapour;
         solver.last_state = None;
         if change <= 1e-12 {
-            return Ok(solver.finish(state));
+            return Ok(solver.done(state));
         }
     }
     Err(FlashError::NotConverged {
         what: spec.name(),
         rounds,
     })
+}
+
+/// The bubble (`bubble`) or dew temperature of `z` at `p_pa`, with `z` and `buffers` as for
+/// [`flash_into`]: the same search as [`flash`] with [`FlashSpec::BubbleTemperature`] or
+/// [`FlashSpec::DewTemperature`], without the incipient phase.
+pub(crate) fn saturation_temperature<M: KValueModel + ?Sized>(
+    model: &M,
+    z: &[f64],
+    p_pa: f64,
+    bubble: bool,
+    buffers: &mut FlashBuffers,
+) -> Result<f64, FlashError> {
+    if model.is_composition_dependent() {
+        // The outer loop is needed: take the full route.
+        let pressure = Pressure::new("P", p_pa).map_err(|e| FlashError::NoSolution {
+            what: if bubble {
+                "bubble temperature"
+            } else {
+                "dew temperature"
+            },
+            detail: e.to_string(),
+        })?;
+        let spec = if bubble {
+            FlashSpec::BubbleTemperature { pressure }
+        } else {
+            FlashSpec::DewTemperature { pressure }
+        };
+        return flash_into(model, z, spec, None, buffers).map(|s| s.t);
+    }
+    let mut solver = Solver {
+        model,
+        z,
+        buffers,
+        liquid: Vec::new(),
+        vapour: Vec::new(),
+        last_state: None,
+        evaluations: 0,
+        iterations: 0,
+        t_bracket: None,
+    };
+    if bubble {
+        solver.bubble_t(p_pa)
+    } else {
+        solver.dew_t(p_pa)
+    }
+}
+
+/// The [`FlashResult`] of a state solved by [`flash_into`] (with the same `model` and `z`),
+/// taking the buffers' vectors into it.
+pub(crate) fn flash_result<M: KValueModel + ?Sized>(
+    model: &M,
+    z: &[f64],
+    state: &SolvedState,
+    buffers: FlashBuffers,
+) -> FlashResult {
+    let mut warnings = Vec::new();
+    model.warnings(state.t, state.p, &mut warnings);
+    let sensitivity = if state.phase == Phase::TwoPhase {
+        sensitivity(z, &buffers.kv, state.beta, state.liquid_fraction)
+    } else {
+        None
+    };
+    FlashResult {
+        phase: state.phase,
+        temperature_k: state.t,
+        pressure_pa: state.p,
+        vapour_fraction: state.beta,
+        liquid_fraction: state.liquid_fraction,
+        liquid: state.has_liquid.then_some(buffers.x),
+        vapour: state.has_vapour.then_some(buffers.y),
+        k_values: buffers.kv.k,
+        iterations: state.iterations,
+        evaluations: state.evaluations,
+        warnings,
+        sensitivity,
+    }
+}
+
+/// dβ/dT and dβ/dP of a two-phase state with vapour fraction `beta` (`liquid_fraction`
+/// = 1 − β) and K-values `kv`, from the implicit-function theorem on the Rachford–Rice
+/// equation; `None` where a derivative overflows (pressures near the smallest float).
+pub(crate) fn sensitivity(z: &[f64], kv: &KValues, beta: f64, liquid_fraction: f64) -> Option<Sensitivity> {
+    let (mut f_beta, mut f_t, mut f_p) = (0.0, 0.0, 0.0);
+    for (i, &zi) in z.iter().enumerate() {
+        let k = kv.k[i];
+        let d = liquid_fraction + beta * k;
+        // zᵢ/dᵢ² times (Kᵢ − 1)² or Kᵢ, written with ratios to d so that huge K cannot
+        // overflow.
+        let (zd, q, kd) = (zi / d, (k - 1.0) / d, k / d);
+        f_beta -= zd * d * q * q;
+        f_t += zd * kd * kv.dln_k_dt[i];
+        f_p += zd * kd * kv.dln_k_dp[i];
+    }
+    let s = Sensitivity {
+        dvapour_fraction_dt_per_k: if f_beta < 0.0 { -f_t / f_beta } else { 0.0 },
+        dvapour_fraction_dp_per_pa: if f_beta < 0.0 { -f_p / f_beta } else { 0.0 },
+    };
+    (s.dvapour_fraction_dt_per_k.is_finite() && s.dvapour_fraction_dp_per_pa.is_finite()).then_some(s)
+}
+
+/// Divides `v` by its sum where that is positive (the arithmetic of [`normalised`]).
+fn normalise_in_place(v: &mut [f64]) {
+    let s: f64 = v.iter().sum();
+    if s > 0.0 {
+        v.iter_mut().for_each(|x| *x /= s);
+    }
 }
 
 fn normalised(v: &[f64]) -> Vec<f64> {
@@ -434,21 +618,11 @@ impl<'a, M: KValueModel + ?Sized> TpFlasher<'a, M> {
     }
 }
 
-/// The solved state before warnings and sensitivities are attached.
-struct State {
-    t: f64,
-    p: f64,
-    phase: Phase,
-    beta: f64,
-    liquid_fraction: f64,
-    x: Option<Vec<f64>>,
-    y: Option<Vec<f64>>,
-}
-
 struct Solver<'a, M: ?Sized> {
     model: &'a M,
     z: &'a [f64],
-    kv: KValues,
+    /// K-values and compositions; a solved state's x and y are written here.
+    buffers: &'a mut FlashBuffers,
     liquid: Vec<f64>,
     vapour: Vec<f64>,
     evaluations: u32,
@@ -468,7 +642,8 @@ fn t_of_v(v: f64) -> f64 {
 
 impl<M: KValueModel + ?Sized> Solver<'_, M> {
     fn k_at(&mut self, t: f64, p: f64) {
-        self.model.k_values(t, p, &self.liquid, &self.vapour, &mut self.kv);
+        self.model
+            .k_values(t, p, &self.liquid, &self.vapour, &mut self.buffers.kv);
         self.evaluations += 1;
         self.last_state = Some((t, p));
     }
@@ -485,10 +660,10 @@ impl<M: KValueModel + ?Sized> Solver<'_, M> {
         self.k_at(t, p);
         let (mut s, mut st, mut sp) = (0.0, 0.0, 0.0);
         for i in 0..self.z.len() {
-            let w = self.z[i] * self.kv.k[i];
+            let w = self.z[i] * self.buffers.kv.k[i];
             s += w;
-            st += w * self.kv.dln_k_dt[i];
-            sp += w * self.kv.dln_k_dp[i] * p;
+            st += w * self.buffers.kv.dln_k_dt[i];
+            sp += w * self.buffers.kv.dln_k_dp[i] * p;
         }
         (s.ln(), st / s, sp / s)
     }
@@ -501,10 +676,10 @@ impl<M: KValueModel + ?Sized> Solver<'_, M> {
             if self.z[i] == 0.0 {
                 continue;
             }
-            let w = self.z[i] / self.kv.k[i];
+            let w = self.z[i] / self.buffers.kv.k[i];
             s += w;
-            st += w * self.kv.dln_k_dt[i];
-            sp += w * self.kv.dln_k_dp[i] * p;
+            st += w * self.buffers.kv.dln_k_dt[i];
+            sp += w * self.buffers.kv.dln_k_dp[i] * p;
         }
         (-s.ln(), st / s, sp / s)
     }
@@ -514,20 +689,20 @@ impl<M: KValueModel + ?Sized> Solver<'_, M> {
         self.k_at(t, p);
         let (mut f, mut ft, mut fp) = (0.0, 0.0, 0.0);
         for i in 0..self.z.len() {
-            let k = self.kv.k[i];
+            let k = self.buffers.kv.k[i];
             let d = (1.0 - beta) + beta * k;
             let zi = self.z[i];
             f += zi * (k - 1.0) / d;
             let dk = zi / (d * d) * k;
-            ft += dk * self.kv.dln_k_dt[i];
-            fp += dk * self.kv.dln_k_dp[i] * p;
+            ft += dk * self.buffers.kv.dln_k_dt[i];
+            fp += dk * self.buffers.kv.dln_k_dp[i] * p;
         }
         (f, ft, fp)
     }
 
     fn no_dew_point(&mut self, t: f64, p: f64, what: &'static str) -> FlashError {
         self.k_at(t, p);
-        match (0..self.z.len()).find(|&i| self.z[i] > 0.0 && self.kv.k[i] == 0.0) {
+        match (0..self.z.len()).find(|&i| self.z[i] > 0.0 && self.buffers.kv.k[i] == 0.0) {
             Some(i) => FlashError::NoDewPoint {
                 component: self.model.component_name(i),
             },
@@ -643,82 +818,82 @@ impl<M: KValueModel + ?Sized> Solver<'_, M> {
     }
 
     /// The incipient vapour at a bubble point (x = z) or liquid at a dew point (y = z).
-    fn saturated(&mut self, t: f64, p: f64, bubble: bool) -> State {
+    fn saturated(&mut self, t: f64, p: f64, bubble: bool) -> SolvedState {
         self.k_at(t, p);
         let z = self.z;
-        let k = &self.kv.k;
-        if bubble {
-            let y: Vec<f64> = normalised(&z.iter().zip(k).map(|(z, k)| z * k).collect::<Vec<_>>());
-            State {
-                t,
-                p,
-                phase: Phase::Liquid,
-                beta: 0.0,
-                liquid_fraction: 1.0,
-                x: Some(z.to_vec()),
-                y: Some(y),
-            }
+        let b = &mut *self.buffers;
+        let (copy, incipient) = if bubble {
+            (&mut b.x, &mut b.y)
         } else {
-            let x: Vec<f64> = normalised(
-                &z.iter()
-                    .zip(k)
-                    .map(|(z, k)| if *z == 0.0 { 0.0 } else { z / k })
-                    .collect::<Vec<_>>(),
-            );
-            State {
-                t,
-                p,
-                phase: Phase::Vapour,
-                beta: 1.0,
-                liquid_fraction: 0.0,
-                x: Some(x),
-                y: Some(z.to_vec()),
-            }
+            (&mut b.y, &mut b.x)
+        };
+        copy.copy_from_slice(z);
+        for ((w, z), k) in incipient.iter_mut().zip(z).zip(&b.kv.k) {
+            *w = if bubble {
+                z * k
+            } else if *z == 0.0 {
+                0.0
+            } else {
+                z / k
+            };
+        }
+        normalise_in_place(incipient);
+        let (phase, beta, liquid_fraction) = if bubble {
+            (Phase::Liquid, 0.0, 1.0)
+        } else {
+            (Phase::Vapour, 1.0, 0.0)
+        };
+        SolvedState {
+            t,
+            p,
+            phase,
+            beta,
+            liquid_fraction,
+            has_liquid: true,
+            has_vapour: true,
+            ..SolvedState::UNSET
         }
     }
 
-    fn split_at(&mut self, t: f64, p: f64) -> Result<State, FlashError> {
+    fn split_at(&mut self, t: f64, p: f64) -> Result<SolvedState, FlashError> {
         self.k_at(t, p);
-        let n = self.z.len();
-        let (mut x, mut y) = (vec![0.0; n], vec![0.0; n]);
-        let s = rachford_rice::solve_into(self.z, &self.kv.k, Options::default(), &mut x, &mut y)?;
+        let b = &mut *self.buffers;
+        let s = rachford_rice::solve_into(self.z, &b.kv.k, Options::default(), &mut b.x, &mut b.y)?;
         self.iterations += s.iterations;
-        Ok(State {
+        Ok(SolvedState {
             t,
             p,
             phase: s.phase,
             beta: s.vapour_fraction,
             liquid_fraction: s.liquid_fraction,
-            x: (s.phase != Phase::Vapour).then_some(x),
-            y: (s.phase != Phase::Liquid).then_some(y),
+            has_liquid: s.phase != Phase::Vapour,
+            has_vapour: s.phase != Phase::Liquid,
+            ..SolvedState::UNSET
         })
     }
 
     /// The two-phase state at a given β, T and P (K evaluated there).
-    fn at_fraction(&mut self, beta: f64, t: f64, p: f64) -> State {
+    fn at_fraction(&mut self, beta: f64, t: f64, p: f64) -> SolvedState {
         self.k_at(t, p);
         let liquid_fraction = 1.0 - beta;
-        let (x, y): (Vec<f64>, Vec<f64>) = self
-            .z
-            .iter()
-            .zip(&self.kv.k)
-            .map(|(z, k)| {
-                let x = z / (liquid_fraction + beta * k);
-                (x, k * x)
-            })
-            .unzip();
-        State {
+        let b = &mut *self.buffers;
+        for (((x, y), z), k) in b.x.iter_mut().zip(b.y.iter_mut()).zip(self.z).zip(&b.kv.k) {
+            *x = z / (liquid_fraction + beta * k);
+            *y = k * *x;
+        }
+        SolvedState {
             t,
             p,
             phase: Phase::TwoPhase,
             beta,
             liquid_fraction,
-            x: Some(x),
-            y: Some(y),
+            has_liquid: true,
+            has_vapour: true,
+            ..SolvedState::UNSET
         }
     }
 
-    fn solve_frozen(&mut self, spec: FlashSpec) -> Result<State, FlashError> {
+    fn solve_frozen(&mut self, spec: FlashSpec) -> Result<SolvedState, FlashError> {
         match spec {
             FlashSpec::TemperaturePressure { temperature, pressure } => {
                 self.split_at(temperature.kelvin(), pressure.pascal())
@@ -804,45 +979,13 @@ impl<M: KValueModel + ?Sized> Solver<'_, M> {
         }
     }
 
-    fn finish(&mut self, state: State) -> FlashResult {
+    /// The state with the search's counts, and the K-values in the buffers at it.
+    fn done(&mut self, state: SolvedState) -> SolvedState {
         self.k_at_cached(state.t, state.p);
-        let mut warnings = Vec::new();
-        self.model.warnings(state.t, state.p, &mut warnings);
-        let sensitivity = (state.phase == Phase::TwoPhase)
-            .then(|| {
-                let (beta, lf) = (state.beta, state.liquid_fraction);
-                let (mut f_beta, mut f_t, mut f_p) = (0.0, 0.0, 0.0);
-                for i in 0..self.z.len() {
-                    let k = self.kv.k[i];
-                    let d = lf + beta * k;
-                    // zᵢ/dᵢ² times (Kᵢ − 1)² or Kᵢ, written with ratios to d so that huge K
-                    // cannot overflow.
-                    let (zd, q, kd) = (self.z[i] / d, (k - 1.0) / d, k / d);
-                    f_beta -= zd * d * q * q;
-                    f_t += zd * kd * self.kv.dln_k_dt[i];
-                    f_p += zd * kd * self.kv.dln_k_dp[i];
-                }
-                Sensitivity {
-                    dvapour_fraction_dt_per_k: if f_beta < 0.0 { -f_t / f_beta } else { 0.0 },
-                    dvapour_fraction_dp_per_pa: if f_beta < 0.0 { -f_p / f_beta } else { 0.0 },
-                }
-            })
-            // At absurd states (pressures near the smallest float) a derivative can overflow:
-            // then there is none to give.
-            .filter(|s| s.dvapour_fraction_dt_per_k.is_finite() && s.dvapour_fraction_dp_per_pa.is_finite());
-        FlashResult {
-            phase: state.phase,
-            temperature_k: state.t,
-            pressure_pa: state.p,
-            vapour_fraction: state.beta,
-            liquid_fraction: state.liquid_fraction,
-            liquid: state.x,
-            vapour: state.y,
-            k_values: std::mem::take(&mut self.kv.k),
+        SolvedState {
             iterations: self.iterations,
             evaluations: self.evaluations,
-            warnings,
-            sensitivity,
+            ..state
         }
     }
 }

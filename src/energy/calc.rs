@@ -1,0 +1,628 @@
+//! The calculation behind every energy entry point: a stream's K-value and enthalpy models,
+//! flashes into reusable buffers, stream enthalpies and their temperature slope, and the
+//! duty-specified flash. [`heater_duty`](super::heater_duty) and the other functions build
+//! their full results from it; [`DutyCalculator`](super::DutyCalculator) keeps one and its
+//! buffers for hot loops, so both give the same numbers by construction.
+
+use super::enthalpy::{PathTable, enthalpy_warnings};
+use super::{
+    DutyOptions, DutyResult, DutySummary, EnergyError, EnthalpyRow, PathSpread, StateSummary, Stream, StreamState,
+    VaporisationPath,
+};
+use crate::equilibrium::{
+    FlashBuffers, FlashSpec, Raoult, SEARCH_MAX_TEMPERATURE_K, SEARCH_MIN_TEMPERATURE_K, SolvedState, flash_into,
+    flash_result, saturation_temperature, sensitivity,
+};
+use crate::properties::Component;
+use crate::rachford_rice::Phase;
+use crate::solve::{bracketed_newton, expand_bracket};
+use crate::units::{Power, Pressure, Temperature, UnitError};
+use crate::warnings::{Warning, push_unique};
+use std::borrow::Cow;
+use std::sync::Arc;
+
+/// Above this width of the two-phase region (dew minus bubble temperature), the
+/// duty-specified flash solves on temperature; below it, on vapour fraction.
+const WIDE_TWO_PHASE_K: f64 = 1.0;
+
+/// A flashed state and the buffers holding its K-values and compositions.
+#[derive(Debug, Clone)]
+pub(crate) struct Solved {
+    pub state: SolvedState,
+    pub buffers: FlashBuffers,
+}
+
+impl Solved {
+    pub fn new(n: usize) -> Self {
+        Self {
+            state: SolvedState::UNSET,
+            buffers: FlashBuffers::new(n),
+        }
+    }
+
+    pub fn summary(&self) -> StateSummary {
+        let s = &self.state;
+        StateSummary {
+            phase: s.phase,
+            temperature_k: s.t,
+            pressure_pa: s.p,
+            vapour_fraction: s.beta,
+            liquid_fraction: s.liquid_fraction,
+        }
+    }
+
+    /// Reports a state found on the single-phase side of a bubble or dew point as that
+    /// phase: round-off can put its T–P flash a hair into the two-phase region, where β is
+    /// then 1e-15.
+    fn force_single(&mut self, phase: Phase, z: &[f64]) {
+        let s = &mut self.state;
+        if s.phase == phase {
+            return;
+        }
+        s.phase = phase;
+        if phase == Phase::Liquid {
+            (s.beta, s.liquid_fraction, s.has_liquid, s.has_vapour) = (0.0, 1.0, true, false);
+            self.buffers.x.copy_from_slice(z);
+        } else {
+            (s.beta, s.liquid_fraction, s.has_liquid, s.has_vapour) = (1.0, 0.0, false, true);
+            self.buffers.y.copy_from_slice(z);
+        }
+    }
+}
+
+/// The calculator: a stream's K-value and enthalpy models together.
+#[derive(Debug, Clone)]
+pub(crate) struct Calc<'a> {
+    stream: Cow<'a, Stream>,
+    /// z as [`crate::equilibrium::flash`] normalises it, so that every flash here is the
+    /// one `flash` would do.
+    zn: Vec<f64>,
+    /// Raoult's law over the stream's components (also the list every enthalpy reads).
+    k_model: Raoult,
+    /// The enthalpy constants for the reference state and path of `options`.
+    table: PathTable,
+    options: DutyOptions,
+}
+
+impl<'a> Calc<'a> {
+    /// # Errors
+    /// [`EnergyError::Unit`] for a reference temperature that is not finite and positive.
+    pub fn new(stream: Cow<'a, Stream>, options: DutyOptions) -> Result<Self, EnergyError> {
+        Temperature::new("reference.temperature_k", options.reference.temperature_k)?;
+        let z = stream.z();
+        let sum = crate::rachford_rice::validate(z, z)?;
+        let zn = if sum == 1.0 {
+            z.to_vec()
+        } else {
+            z.iter().map(|v| v / sum).collect()
+        };
+        let components = stream.components();
+        Ok(Self {
+            table: PathTable::new(components, options.reference, options.path),
+            k_model: Raoult::new(components.to_vec()),
+            zn,
+            stream,
+            options,
+        })
+    }
+
+    /// A calculator borrowing `stream`, and buffers for an inlet and an outlet state.
+    pub fn with_states(stream: &'a Stream, options: DutyOptions) -> Result<(Self, Solved, Solved), EnergyError> {
+        let calc = Self::new(Cow::Borrowed(stream), options)?;
+        let n = calc.component_count();
+        Ok((calc, Solved::new(n), Solved::new(n)))
+    }
+
+    pub fn stream(&self) -> &Stream {
+        &self.stream
+    }
+
+    pub fn options(&self) -> DutyOptions {
+        self.options
+    }
+
+    pub fn component_count(&self) -> usize {
+        self.zn.len()
+    }
+
+    fn flow(&self) -> f64 {
+        self.stream.flow().mol_per_s()
+    }
+
+    fn z(&self) -> &[f64] {
+        self.stream.z()
+    }
+
+    fn components(&self) -> &[Arc<Component>] {
+        self.k_model.components()
+    }
+
+    /// Flashes `spec` into `out` (the flash [`crate::equilibrium::flash`] does, without
+    /// allocating).
+    fn flash_spec(&self, spec: FlashSpec, t_bracket: Option<(f64, f64)>, out: &mut Solved) -> Result<(), EnergyError> {
+        out.state = flash_into(&self.k_model, &self.zn, spec, t_bracket, &mut out.buffers)?;
+        Ok(())
+    }
+
+    /// Flashes a heater inlet or outlet state (`which` names it in errors) into `out`.
+    ///
+    /// # Errors
+    /// [`EnergyError::Unit`] for a given temperature outside the 1–10 000 K the energy
+    /// calculations work over (the correlations can overflow beyond it); otherwise as the
+    /// flash.
+    pub fn flash_state(&self, which: &'static str, state: StreamState, out: &mut Solved) -> Result<(), EnergyError> {
+        if let StreamState::TemperaturePressure { temperature, .. }
+        | StreamState::TemperatureVapourFraction { temperature, .. } = state
+        {
+            let t = temperature.kelvin();
+            if !(SEARCH_MIN_TEMPERATURE_K..=SEARCH_MAX_TEMPERATURE_K).contains(&t) {
+                return Err(UnitError::OutOfRange {
+                    field: format!("{which}.temperature"),
+                    value: t,
+                    unit: "K".to_string(),
+                    why: "outside 1 to 10000 K, the range of the energy calculations",
+                }
+                .into());
+            }
+        }
+        self.flash_spec(state.spec(), None, out)
+    }
+
+    /// The T–P flash of the stream at `t_k` and `p` into `out`.
+    fn tp_into(&self, t_k: f64, p: Pressure, out: &mut Solved) -> Result<(), EnergyError> {
+        let spec = FlashSpec::TemperaturePressure {
+            temperature: Temperature::new("T", t_k)?,
+            pressure: p,
+        };
+        self.flash_spec(spec, None, out)
+    }
+
+    /// Amounts of component `i` in the liquid and vapour, per mole of stream.
+    #[inline(always)]
+    fn amounts(&self, s: &Solved, i: usize) -> (f64, f64) {
+        let z = self.z();
+        match s.state.phase {
+            Phase::Liquid => (z[i], 0.0),
+            Phase::Vapour => (0.0, z[i]),
+            Phase::TwoPhase => {
+                let l = if s.state.has_liquid {
+                    s.state.liquid_fraction * s.buffers.x[i]
+                } else {
+                    0.0
+                };
+                let v = if s.state.has_vapour {
+                    s.state.beta * s.buffers.y[i]
+                } else {
+                    0.0
+                };
+                (l, v)
+            }
+        }
+    }
+
+    /// Per mole of stream: Σ over components and phases of amount × enthalpy.
+    pub fn enthalpy(&self, s: &Solved) -> f64 {
+        self.enthalpy_with(&self.table, s)
+    }
+
+    fn enthalpy_with(&self, table: &PathTable, s: &Solved) -> f64 {
+        let t = s.state.t;
+        let components = self.components();
+        let mut total = 0.0;
+        for i in 0..self.component_count() {
+            let (l, v) = self.amounts(s, i);
+            if l > 0.0 {
+                total += l * table.total(components, i, Phase::Liquid, t);
+            }
+            if v > 0.0 {
+                total += v * table.total(components, i, Phase::Vapour, t);
+            }
+        }
+        total
+    }
+
+    /// The enthalpy of the stream all liquid (at its bubble point) or all vapour (at its
+    /// dew point) at `t_k`, J/mol.
+    pub fn saturated_enthalpy(&self, phase: Phase, t_k: f64) -> f64 {
+        self.table.phase_enthalpy(self.components(), phase, self.z(), t_k)
+    }
+
+    /// Adds the K-value model's warnings at the state (those of its flash result).
+    pub fn flash_warnings(&self, s: &Solved, out: &mut Vec<Warning>) {
+        use crate::equilibrium::KValueModel;
+        self.k_model.warnings(s.state.t, s.state.p, out);
+    }
+
+    /// The stream enthalpy (J/mol, the same sum as [`Self::enthalpy`]) and its analytic
+    /// derivative dH/dT at constant pressure (J/(mol·K)) at a state flashed at T and P,
+    /// using the K-values and ∂ln K/∂T the flash left in the buffers.
+    ///
+    /// H = Σ zᵢ hᴸᵢ + Σ vᵢ (hⱽᵢ − hᴸᵢ) with vᵢ = β Kᵢ zᵢ / dᵢ, dᵢ = 1 − β + β Kᵢ, so
+    /// dvᵢ/dT = (zᵢ/dᵢ)(Kᵢ/dᵢ) (dβ/dT + β (1 − β) ∂ln Kᵢ/∂T).
+    pub fn enthalpy_and_slope(&self, s: &Solved) -> (f64, f64) {
+        let (table, components) = (&self.table, self.components());
+        let st = &s.state;
+        let (t, beta, lf) = (st.t, st.beta, st.liquid_fraction);
+        let two_phase = st.phase == Phase::TwoPhase;
+        let kv = &s.buffers.kv;
+        let dbeta_dt = if two_phase {
+            sensitivity(&self.zn, kv, beta, lf).map_or(0.0, |s| s.dvapour_fraction_dt_per_k)
+        } else {
+            0.0
+        };
+        let z = self.z();
+        let (mut h, mut slope) = (0.0, 0.0);
+        for (i, &zi) in z.iter().enumerate() {
+            if zi == 0.0 {
+                continue;
+            }
+            let Some(pure) = table.pure(components, i) else {
+                continue;
+            };
+            let (l, v) = self.amounts(s, i);
+            let h_liquid = (l > 0.0 || two_phase).then(|| pure.total(Phase::Liquid, t));
+            let h_vapour = (v > 0.0 || two_phase).then(|| pure.total(Phase::Vapour, t));
+            if l > 0.0 {
+                h += l * h_liquid.unwrap_or(0.0);
+            }
+            if v > 0.0 {
+                h += v * h_vapour.unwrap_or(0.0);
+            }
+            slope += l * pure.slope(Phase::Liquid, t) + v * pure.slope(Phase::Vapour, t);
+            if let (true, Some(hl), Some(hv)) = (two_phase, h_liquid, h_vapour) {
+                let k = kv.k[i];
+                let d = lf + beta * k;
+                let dv = (zi / d) * (k / d) * (dbeta_dt + beta * lf * kv.dln_k_dt[i]);
+                slope += dv * (hv - hl);
+            }
+        }
+        (h, slope)
+    }
+
+    /// The duty and states of a change from `inlet` to `outlet`; dQ/dT at the outlet where
+    /// `outlet_tp` (the outlet was flashed at T and P).
+    pub fn summary(&self, inlet: &Solved, outlet: &Solved, outlet_tp: bool) -> DutySummary {
+        let flow = self.flow();
+        let h_in = self.enthalpy(inlet);
+        let (h_out, dq) = if outlet_tp {
+            let (h, slope) = self.enthalpy_and_slope(outlet);
+            (h, Some(flow * slope))
+        } else {
+            (self.enthalpy(outlet), None)
+        };
+        DutySummary {
+            duty_w: flow * (h_out - h_in),
+            inlet: inlet.summary(),
+            outlet: outlet.summary(),
+            inlet_enthalpy_j_per_mol: h_in,
+            outlet_enthalpy_j_per_mol: h_out,
+            dduty_dt_out_w_per_k: dq,
+        }
+    }
+
+    /// Appends the state's rows to the table (their enthalpies add up to
+    /// [`Self::enthalpy`]), and the enthalpy correlations' warnings; `warned` keeps one
+    /// byte per component across calls.
+    fn rows(
+        &self,
+        state: &'static str,
+        s: &Solved,
+        out: &mut Vec<EnthalpyRow>,
+        warned: &mut [u8],
+        warnings: &mut Vec<Warning>,
+    ) {
+        let flow = self.flow();
+        let t = s.state.t;
+        let (reference, path) = (self.options.reference, self.options.path);
+        for (i, c) in self.components().iter().enumerate() {
+            let (l, v) = self.amounts(s, i);
+            for (amount, phase) in [(l, Phase::Liquid), (v, Phase::Vapour)] {
+                if amount <= 0.0 {
+                    continue;
+                }
+                let split = self.table.split(self.components(), i, phase, t);
+                enthalpy_warnings(c, reference, path, phase, t, &mut warned[i], warnings);
+                let h = split.total_j_per_mol();
+                out.push(EnthalpyRow {
+                    state,
+                    component: c.name().to_string(),
+                    phase,
+                    flow_mol_s: amount * flow,
+                    enthalpy_j_per_mol: h,
+                    liquid_sensible_j_per_mol: split.liquid_sensible_j_per_mol,
+                    latent_j_per_mol: split.latent_j_per_mol,
+                    vapour_sensible_j_per_mol: split.vapour_sensible_j_per_mol,
+                    enthalpy_flow_w: amount * flow * h,
+                });
+            }
+        }
+    }
+
+    /// The duty along every path; `selected_duty_w` is the one already known for the
+    /// model's own path. The other paths' constants are computed here, once each, and each
+    /// component's liquid sensible heat once per state for both.
+    fn path_spread(&self, inlet: &Solved, outlet: &Solved, selected_duty_w: f64) -> PathSpread {
+        let flow = self.flow();
+        let (reference, selected) = (self.options.reference, self.options.path);
+        let components = self.components();
+        let others: Vec<(VaporisationPath, PathTable)> = VaporisationPath::ALL
+            .into_iter()
+            .filter(|p| *p != selected)
+            .map(|p| (p, PathTable::new(components, reference, p)))
+            .collect();
+        // Σ over components and phases of amount × enthalpy along each other path: the sum
+        // of `enthalpy_with`, in the same order.
+        let enthalpies = |s: &Solved| {
+            let t = s.state.t;
+            let mut totals = [0.0; 2];
+            for i in 0..self.component_count() {
+                let (l, v) = self.amounts(s, i);
+                if l <= 0.0 && v <= 0.0 {
+                    continue;
+                }
+                let mut liquid = None;
+                for ((_, table), total) in others.iter().zip(&mut totals) {
+                    let Some(pure) = table.pure(components, i) else {
+                        continue;
+                    };
+                    let mut liquid_to_t = || *liquid.get_or_insert_with(|| pure.liquid_sensible(t));
+                    if l > 0.0 {
+                        *total += l * pure.total_given(Phase::Liquid, t, &mut liquid_to_t);
+                    }
+                    if v > 0.0 {
+                        *total += v * pure.total_given(Phase::Vapour, t, &mut liquid_to_t);
+                    }
+                }
+            }
+            totals
+        };
+        let (h_in, h_out) = (enthalpies(inlet), enthalpies(outlet));
+        let duty = |path| {
+            others
+                .iter()
+                .position(|(p, _)| *p == path)
+                .map_or(selected_duty_w, |k| flow * (h_out[k] - h_in[k]))
+        };
+        let [a, b, c] = VaporisationPath::ALL.map(duty);
+        let max = a.max(b).max(c);
+        let min = a.min(b).min(c);
+        let scale = a.abs().max(b.abs()).max(c.abs());
+        PathSpread {
+            boiling_point_w: a,
+            stream_temperature_w: b,
+            reference_temperature_w: c,
+            spread_w: max - min,
+            relative: if scale > 0.0 { (max - min) / scale } else { 0.0 },
+        }
+    }
+
+    /// The full result: [`Self::summary`]'s numbers with both flash results, the enthalpy
+    /// table, the path spread and the warnings.
+    pub fn result(&self, inlet: Solved, outlet: Solved, outlet_tp: bool) -> DutyResult {
+        let summary = self.summary(&inlet, &outlet, outlet_tp);
+        let n = self.component_count();
+        let mut table = Vec::with_capacity(4 * n);
+        let mut row_warnings = Vec::new();
+        let mut warned = vec![0u8; n];
+        self.rows("inlet", &inlet, &mut table, &mut warned, &mut row_warnings);
+        self.rows("outlet", &outlet, &mut table, &mut warned, &mut row_warnings);
+        let spread = self.path_spread(&inlet, &outlet, summary.duty_w);
+        let inlet = flash_result(&self.k_model, &self.zn, &inlet.state, inlet.buffers);
+        let outlet = flash_result(&self.k_model, &self.zn, &outlet.state, outlet.buffers);
+        let mut warnings = Vec::new();
+        for w in inlet.warnings.iter().chain(&outlet.warnings) {
+            push_unique(&mut warnings, w.clone());
+        }
+        for w in row_warnings {
+            push_unique(&mut warnings, w);
+        }
+        DutyResult {
+            duty_w: summary.duty_w,
+            flow_mol_s: self.flow(),
+            inlet_enthalpy_j_per_mol: summary.inlet_enthalpy_j_per_mol,
+            outlet_enthalpy_j_per_mol: summary.outlet_enthalpy_j_per_mol,
+            table,
+            dduty_dt_out_w_per_k: summary.dduty_dt_out_w_per_k,
+            path_spread: spread,
+            options: self.options,
+            warnings,
+            inlet,
+            outlet,
+        }
+    }
+
+    /// The bubble temperature at `p`, searched with `buffers` as scratch.
+    pub fn bubble_temperature(&self, p: Pressure, buffers: &mut FlashBuffers) -> Result<f64, EnergyError> {
+        Ok(saturation_temperature(
+            &self.k_model,
+            &self.zn,
+            p.pascal(),
+            true,
+            buffers,
+        )?)
+    }
+
+    /// The dew temperature at `p` (`None`: a non-volatile component means there is none).
+    pub fn dew_temperature(&self, p: Pressure, buffers: &mut FlashBuffers) -> Result<Option<f64>, EnergyError> {
+        match saturation_temperature(&self.k_model, &self.zn, p.pascal(), false, buffers) {
+            Ok(t) => Ok(Some(t)),
+            Err(crate::equilibrium::FlashError::NoDewPoint { .. }) => Ok(None),
+            Err(e) => Err(e.into()),
+        }
+    }
+
+    /// The duty-specified flash: `inlet` flashed into `inlet_out`, and the state at
+    /// `outlet_pressure` after `duty` is added into `outlet_out`.
+    pub fn outlet_for_duty(
+        &self,
+        inlet: StreamState,
+        duty: Power,
+        outlet_pressure: Pressure,
+        inlet_out: &mut Solved,
+        outlet_out: &mut Solved,
+    ) -> Result<(), EnergyError> {
+        self.flash_state("inlet", inlet, inlet_out)?;
+        let target = self.enthalpy(inlet_out) + duty.watts() / self.flow();
+        let t_bub = self.bubble_temperature(outlet_pressure, &mut outlet_out.buffers)?;
+        self.state_for_enthalpy(target, outlet_pressure, t_bub, None, duty.watts(), outlet_out)
+    }
+
+    /// Writes into `out` the state at pressure `p` whose enthalpy is `target` J/mol, given
+    /// the bubble temperature at `p` and, where already known, the dew temperature
+    /// (`Some(None)`: there is none); an unknown dew temperature is searched for only when
+    /// the target lies above the bubble point.
+    pub fn state_for_enthalpy(
+        &self,
+        target: f64,
+        p: Pressure,
+        t_bub: f64,
+        dew: Option<Option<f64>>,
+        duty_w: f64,
+        out: &mut Solved,
+    ) -> Result<(), EnergyError> {
+        let (z, components, table) = (self.z(), self.components(), &self.table);
+        let h_bub = self.saturated_enthalpy(Phase::Liquid, t_bub);
+        let out_of_reach = || EnergyError::DutyOutOfReach { duty_w };
+        let single = |phase: Phase, lo_t: f64, hi_t: f64, out: &mut Solved| -> Result<(), EnergyError> {
+            let h = |t: f64| table.phase_enthalpy(components, phase, z, t) - target;
+            let bracket = expand_bracket(h, lo_t, hi_t, SEARCH_MIN_TEMPERATURE_K, SEARCH_MAX_TEMPERATURE_K)
+                .ok_or_else(out_of_reach)?;
+            let root = bracketed_newton(
+                |t| (h(t), table.phase_slope(components, phase, z, t)),
+                bracket.lo,
+                bracket.hi,
+                bracket.secant(),
+                1e-10,
+            );
+            self.tp_into(root.x, p, out)?;
+            out.force_single(phase, z);
+            Ok(())
+        };
+        if target <= h_bub {
+            // A T–P flash just below the bubble point is all liquid; clamp there.
+            return single(Phase::Liquid, t_bub - 10.0, t_bub, out);
+        }
+        let dew = match dew {
+            Some(d) => d,
+            None => self.dew_temperature(p, &mut out.buffers)?,
+        };
+        let Some(t_dew) = dew else {
+            return self.two_phase(target, p, t_bub, SEARCH_MAX_TEMPERATURE_K, out);
+        };
+        let h_dew = self.saturated_enthalpy(Phase::Vapour, t_dew);
+        if target >= h_dew {
+            return single(Phase::Vapour, t_dew, t_dew + 10.0, out);
+        }
+        if t_dew - t_bub > WIDE_TWO_PHASE_K {
+            // Start where the enthalpy would be if it ran linearly from bubble to dew point.
+            let fraction = ((target - h_bub) / (h_dew - h_bub)).clamp(0.01, 0.99);
+            let start = t_bub + fraction * (t_dew - t_bub);
+            return self.two_phase_on_temperature(target, p, t_bub, t_dew, start, out);
+        }
+        self.two_phase(target, p, t_bub, t_dew, out)
+    }
+
+    /// Solves on temperature between the bubble and dew points, Newton with the analytic
+    /// dH/dT inside the bracket: used where the two-phase region spans more than
+    /// [`WIDE_TWO_PHASE_K`], so that temperature pins the vapour fraction down well. Each
+    /// step is one K-value evaluation and one Rachford–Rice solve, in `out`'s buffers.
+    fn two_phase_on_temperature(
+        &self,
+        target: f64,
+        p: Pressure,
+        t_bub: f64,
+        t_dew: f64,
+        start: f64,
+        out: &mut Solved,
+    ) -> Result<(), EnergyError> {
+        const TOLERANCE_K: f64 = 1e-12;
+        let mut failure: Option<EnergyError> = None;
+        let root = bracketed_newton(
+            |t| match self.tp_into(t, p, out) {
+                Ok(()) => {
+                    let (h, slope) = self.enthalpy_and_slope(out);
+                    (h - target, slope)
+                }
+                Err(e) => {
+                    failure.get_or_insert(e);
+                    (0.0, 1.0)
+                }
+            },
+            t_bub,
+            t_dew,
+            start,
+            TOLERANCE_K,
+        );
+        if let Some(e) = failure {
+            return Err(e);
+        }
+        // The search ends with a Newton step shorter than its tolerance from the state it
+        // last flashed, which is in `out`: that state is the answer to the same tolerance.
+        if (root.x - out.state.t).abs() <= TOLERANCE_K {
+            return Ok(());
+        }
+        self.tp_into(root.x, p, out)
+    }
+
+    /// Solves on the vapour fraction between the bubble and dew points: temperature may be
+    /// flat there (pure components, azeotrope-like narrow boilers), vapour fraction never is.
+    fn two_phase(&self, target: f64, p: Pressure, t_bub: f64, t_dew: f64, out: &mut Solved) -> Result<(), EnergyError> {
+        let (lo, hi) = (0.0, 1.0);
+        let at = |beta: f64, out: &mut Solved| {
+            let spec = FlashSpec::PressureVapourFraction {
+                pressure: p,
+                vapour_fraction: beta.clamp(0.0, 1.0),
+            };
+            self.flash_spec(spec, Some((t_bub, t_dew)), out)
+        };
+        let mut failure: Option<EnergyError> = None;
+        let beta = {
+            let mut f = |beta: f64| match at(beta, out) {
+                Ok(()) => self.enthalpy(out) - target,
+                Err(e) => {
+                    // Stop the search; the error is returned below.
+                    failure.get_or_insert(e);
+                    0.0
+                }
+            };
+            match roots::find_root_brent(lo, hi, &mut f, &mut BrentTolerance) {
+                Ok(b) => b,
+                Err(_) => {
+                    // Brent can only fail here by running out of steps: finish by bisection.
+                    let (mut a, mut b) = (lo, hi);
+                    for _ in 0..200 {
+                        let m = 0.5 * (a + b);
+                        if f(m) < 0.0 {
+                            a = m
+                        } else {
+                            b = m
+                        }
+                        if b - a < 1e-15 {
+                            break;
+                        }
+                    }
+                    0.5 * (a + b)
+                }
+            }
+        };
+        if let Some(e) = failure {
+            return Err(e);
+        }
+        at(beta, out)
+    }
+}
+
+/// Brent's tolerance for the vapour fraction in the duty-specified flash.
+struct BrentTolerance;
+
+impl roots::Convergency<f64> for BrentTolerance {
+    fn is_root_found(&mut self, y: f64) -> bool {
+        y == 0.0
+    }
+    fn is_converged(&mut self, x1: f64, x2: f64) -> bool {
+        (x1 - x2).abs() <= 1e-13
+    }
+    fn is_iteration_limit_reached(&mut self, iter: usize) -> bool {
+        iter >= 200
+    }
+}
