@@ -92,7 +92,7 @@ def saturation_table():
 def one_atm_table():
     P_MPa = P_ATM_PA / 1e6
     points = []  # (T, phase, h_J_per_mol)
-    for i in range(27):  # 293.15 K .. 423.15 K
+    for i in range(57):  # 293.15 K .. 573.15 K
         T = round(293.15 + 5 * i, 2)
         st = IAPWS97(T=T, P=P_MPa)
         if st.region == 1:
@@ -102,7 +102,7 @@ def one_atm_table():
         else:
             raise RuntimeError("unexpected IF97 region %r at T=%r" % (st.region, T))
         points.append((T, phase, h_molar(st)))
-    assert points[-1][0] == 423.15
+    assert points[-1][0] == 573.15
 
     liq = IAPWS97(P=P_MPa, x=0.0)
     vap = IAPWS97(P=P_MPa, x=1.0)
@@ -115,7 +115,7 @@ def one_atm_table():
 
     rows = [[fmt(T), phase, fmt(h)] for (T, phase, h) in points]
     header = SOURCE_LINES + [
-        "water/steam at P = 101325 Pa (1 atm): T = 293.15 K to 423.15 K in 5 K steps, "
+        "water/steam at P = 101325 Pa (1 atm): T = 293.15 K to 573.15 K in 5 K steps, "
         "plus saturated liquid and saturated vapour at the saturation temperature "
         "Tsat(101325 Pa) = %s K" % fmt(Tsat),
         "phase: liquid = IF97 region 1, vapour = IF97 region 2; "
