@@ -442,18 +442,19 @@ pub fn solve_into(
         return Ok(problem.summary(s, 0, evaluations));
     }
 
-    // Start at ½ with G, G′ and G″ from the set-up pass (G(½) = ∓F(½) by orientation; the
-    // odd derivatives change sign with it, G′ does not). ½ may lie above the window: the
-    // first step still starts there, and the bracket catches it if it lands outside.
-    // The scale of G's round-off at ½ is not gathered (one running sum fewer in the set-up
-    // pass); 0 turns the round-off test off for the first step only.
+    // Start at ½ with G, G′ and G″ from the set-up pass (G = F and G″ = F″ in the liquid
+    // orientation, both negated in the vapour one; G′ = F′ in both). ½ may lie above the
+    // window: the first step still starts there, and the bracket catches it if it lands
+    // outside. The scale of G's round-off at ½ is not gathered (one running sum fewer in the
+    // set-up pass); NaN turns the round-off test off for the first step, and a root accepted
+    // there is polished.
     let [f_half, df_half, d2f_half] = set_up.half;
     let sign = if orientation == Orientation::Liquid { 1.0 } else { -1.0 };
     let start = [
         sign * f_half * inv_sum,
         df_half * inv_sum,
         sign * 2.0 * d2f_half * inv_sum,
-        0.0,
+        f64::NAN,
     ];
     let bracket = (lo, hi);
     Ok(match orientation {
@@ -842,7 +843,7 @@ impl<'a> Oriented<'a> {
         // Where the round-off of G, about ε·Σ|terms|, leaves s uncertain by more than
         // POLISH_ULPS units in its last place (K-values all near 1, or a root within a
         // hair of β = 0 or 1), finish with Newton steps on G evaluated in double-double.
-        if scale > POLISH_ULPS * s * dg.abs() {
+        if scale.is_nan() || scale > POLISH_ULPS * s * dg.abs() {
             let (polished, steps) = self.polish::<LIQUID>(s, bracket);
             s = polished;
             evaluations += steps;
