@@ -630,7 +630,10 @@ impl SetUp {
             f0 += z * t;
             let present = z.simd_gt(zero);
             f1 += present.select(z * t / k, zero);
-            let r = (t + t) / (k + one);
+            // rᵢ = (Kᵢ − 1)/(1 + ½(Kᵢ − 1)) = 2(Kᵢ − 1)/(Kᵢ + 1), doubled after the division
+            // so that no Kᵢ near the top of the f64 range overflows.
+            let r = t / (k + one);
+            let r = r + r;
             let term = z * r;
             half[0] += term;
             half[1] -= term * r;

@@ -1196,3 +1196,31 @@ fn parallel_batch_equals_serial_batch() {
     assert_same(&parallel, &serial);
     assert!(par_solve_batch(z.view(), k.view(), &mut BatchOutput::new(999, 7)).is_err());
 }
+
+/// K-values near the top of the f64 range (1e307 and 1.7e308) and near its bottom (1e-307)
+/// still give the closed-form root of a binary: no intermediate overflows. Closed form as
+/// in `binary_closed_form` (common practice), in 200-bit arithmetic.
+#[test]
+fn k_values_at_the_ends_of_the_f64_range() {
+    for (z, k) in [
+        ([1e-300, 1.0 - 1e-300], [1e307, 0.5]),
+        ([0.3, 0.7], [1.7e308, 1e-307]),
+        ([0.5, 0.5], [1.7e308, 0.25]),
+    ] {
+        let s = rachford_rice(&z, &k).unwrap();
+        check_split(&z, &k, &s);
+        if s.phase == Phase::TwoPhase {
+            let (beta, gamma) = binary_closed_form(z, k);
+            assert!(
+                (s.vapour_fraction - beta).abs() <= 16.0 * EPS * beta,
+                "{z:?} {k:?}: {} vs {beta}",
+                s.vapour_fraction
+            );
+            assert!(
+                (s.liquid_fraction - gamma).abs() <= 16.0 * EPS * gamma,
+                "{z:?} {k:?}: {} vs {gamma}",
+                s.liquid_fraction
+            );
+        }
+    }
+}
