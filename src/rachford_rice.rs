@@ -351,7 +351,7 @@ pub fn solve_into(
     let mut evaluations = 1;
     if set_up.f0 <= 0.0 {
         if options.negative_flash
-            && let Some(s) = negative_root(z, k, inv_sum, Orientation::Liquid, x, y)
+            && let Some(s) = negative_root(z, k, inv_sum, Orientation::Liquid, (set_up.k_min, set_up.k_max), x, y)
         {
             return Ok(s);
         }
@@ -372,7 +372,7 @@ pub fn solve_into(
         evaluations += 1;
         if set_up.f1 >= 0.0 {
             if options.negative_flash
-                && let Some(s) = negative_root(z, k, inv_sum, Orientation::Vapour, x, y)
+                && let Some(s) = negative_root(z, k, inv_sum, Orientation::Vapour, (set_up.k_min, set_up.k_max), x, y)
             {
                 return Ok(s);
             }
@@ -410,21 +410,8 @@ pub fn solve_into(
         Orientation::Liquid => (lo_liquid, hi_liquid),
         Orientation::Vapour => (lo_vapour, hi_vapour),
     };
-    // The nearest poles, from the extreme K-values of the components present: K_max > 1
-    // and K_min < 1 here, since F(0) > 0 > F(1).
-    let (k_min, k_max) = (set_up.k_min, set_up.k_max);
-    let (pole_lo, pole_hi) = match orientation {
-        Orientation::Liquid => (-1.0 / (k_max - 1.0), 1.0 / (1.0 - k_min)),
-        Orientation::Vapour => (-k_min / (1.0 - k_min), k_max / (k_max - 1.0)),
-    };
-    let problem = Oriented {
-        z,
-        k,
-        inv_sum,
-        orientation,
-        pole_lo,
-        pole_hi,
-    };
+    // Both nearest poles are finite here: K_max > 1 and K_min < 1, since F(0) > 0 > F(1).
+    let problem = Oriented::new(z, k, inv_sum, orientation, set_up.k_min, set_up.k_max);
     if set_up.half[0] == 0.0 {
         let s = 0.5;
         problem.write(s, x, y);
@@ -676,6 +663,32 @@ enum Orientation {
     Vapour,
 }
 
+impl Orientation {
+    /// The poles of the oriented G nearest to the bracket, (s₋ ≤ 0, s₊ ≥ 1), from the least
+    /// and greatest K over the components present (±∞ where no component has K on that side
+    /// of 1). The pole −pᵢ/aᵢ is monotone in Kᵢ in both orientations, so the extremes give
+    /// the nearest; each is written as −pᵢ/aᵢ of its component, bit for bit, which
+    /// [`Oriented::denominator_from_pole`] relies on to recognise the pole's own component.
+    fn poles(self, k_min: f64, k_max: f64) -> (f64, f64) {
+        let below = k_min < 1.0;
+        let above = k_max > 1.0;
+        match self {
+            Orientation::Liquid => (
+                if above { -1.0 / (k_max - 1.0) } else { f64::NEG_INFINITY },
+                if below { -1.0 / (k_min - 1.0) } else { f64::INFINITY },
+            ),
+            Orientation::Vapour => (
+                if below {
+                    -k_min / (1.0 - k_min)
+                } else {
+                    f64::NEG_INFINITY
+                },
+                if above { -k_max / (1.0 - k_max) } else { f64::INFINITY },
+            ),
+        }
+    }
+}
+
 /// G(s) = Σ zᵢ aᵢ / (pᵢ + s aᵢ), decreasing in s, with (p, a) = (1, K − 1) in the liquid
 /// orientation and (K, 1 − K) in the vapour one.
 struct Oriented<'a> {
@@ -690,46 +703,18 @@ struct Oriented<'a> {
 }
 
 impl<'a> Oriented<'a> {
-    fn new(z: &'a [f64], k: &'a [f64], inv_sum: f64, orientation: Orientation) -> Self {
-        let mut me = Self {
+    /// The problem in `orientation`, with the nearest poles from the extreme K-values of the
+    /// components present ([`Orientation::poles`]).
+    fn new(z: &'a [f64], k: &'a [f64], inv_sum: f64, orientation: Orientation, k_min: f64, k_max: f64) -> Self {
+        let (pole_lo, pole_hi) = orientation.poles(k_min, k_max);
+        Self {
             z,
             k,
             inv_sum,
             orientation,
-            pole_lo: f64::NEG_INFINITY,
-            pole_hi: f64::INFINITY,
-        };
-        // −p/a increases with a in both orientations (−1/a, or 1 − 1/a with p = 1 − a), so
-        // the nearest poles belong to the largest positive and the most negative a: one
-        // division each instead of one per component.
-        // Equal (rounded) a with different p can occur in the vapour orientation (a = 1 − K
-        // rounds); such ties are settled by the poles themselves.
-        let (mut lo_i, mut hi_i) = (usize::MAX, usize::MAX);
-        let (mut a_max, mut a_min) = (0.0, 0.0);
-        let pole = |i: usize| {
-            let (p, a) = me.coefficients(i);
-            -p / a
-        };
-        for (i, &zi) in z.iter().enumerate() {
-            if zi == 0.0 {
-                continue;
-            }
-            let (_, a) = me.coefficients(i);
-            if a > 0.0 && (a > a_max || (a == a_max && pole(i) > pole(lo_i))) {
-                (a_max, lo_i) = (a, i);
-            } else if a < 0.0 && (a < a_min || (a == a_min && pole(i) < pole(hi_i))) {
-                (a_min, hi_i) = (a, i);
-            }
+            pole_lo,
+            pole_hi,
         }
-        if lo_i != usize::MAX {
-            let (p, a) = me.coefficients(lo_i);
-            me.pole_lo = -p / a;
-        }
-        if hi_i != usize::MAX {
-            let (p, a) = me.coefficients(hi_i);
-            me.pole_hi = -p / a;
-        }
-        me
     }
 
     #[inline]
@@ -1037,10 +1022,11 @@ fn negative_root(
     k: &[f64],
     inv_sum: f64,
     orientation: Orientation,
+    (k_min, k_max): (f64, f64),
     x: &mut [f64],
     y: &mut [f64],
 ) -> Option<SplitSummary> {
-    let problem = Oriented::new(z, k, inv_sum, orientation);
+    let problem = Oriented::new(z, k, inv_sum, orientation, k_min, k_max);
     if !problem.pole_lo.is_finite() || problem.pole_lo >= 0.0 {
         return None;
     }
