@@ -1502,3 +1502,25 @@ fn every_example_case_runs() {
         assert_eq!(v["command"], command, "{file}");
     }
 }
+
+/// A flow unit that is neither molar nor mass is refused with both lists of accepted units,
+/// for the total flow and for a component flow alike; a mass flow is accepted for both.
+#[test]
+fn unknown_flow_units_name_both_unit_lists() {
+    let total = r#"{"components": ["n-hexane", "toluene"], "z": [0.6, 0.4], "flow": "1200 furlongs/h",
+        "inlet": {"T": "25 degC", "P": "1.5 bar"}, "outlet": {"T": "95 degC", "P": "1.5 bar"}}"#;
+    fails("duty", total, &["flow", "furlongs/h", "molar: mol/s", "mass: kg/s"]);
+    let component = r#"{"components": ["n-hexane", "toluene"], "flows": ["3 furlongs/h", "1 kmol/h"],
+        "inlet": {"T": "25 degC", "P": "1.5 bar"}, "outlet": {"T": "95 degC", "P": "1.5 bar"}}"#;
+    fails(
+        "duty",
+        component,
+        &["flows", "furlongs/h", "molar: mol/s", "mass: kg/s"],
+    );
+    let mass = json!({"components": ["n-hexane", "toluene"], "flows": ["300 kg/h", "1 kmol/h"],
+        "inlet": {"T": "25 degC", "P": "1.5 bar"}, "outlet": {"T": "95 degC", "P": "1.5 bar"}});
+    let v = json_stdin(&["duty"], &mass);
+    // n-hexane, M = 86.18 g/mol (CRC Handbook, from memory): 300 kg/h is 0.967 mol/s.
+    let expected = 300.0 / 3600.0 / 0.08618 + 1000.0 / 3600.0;
+    assert!((f(&v, "flow_mol_s") - expected).abs() < 1e-3, "{v}");
+}

@@ -502,26 +502,47 @@ pub fn vapour_fraction(field: &str, v: &Value) -> CliResult<f64> {
 fn any_flow(field: &str, v: &Value) -> CliResult<TotalFlow> {
     match v {
         Value::Number(_) => Ok(TotalFlow::Molar(MolarFlow::new(field, number(field, v)?)?)),
-        Value::String(s) => match MolarFlow::parse(field, s) {
-            Ok(m) => Ok(TotalFlow::Molar(m)),
-            Err(UnitError::UnknownUnit {
-                unit,
-                accepted: molar_units,
-                ..
-            }) => match MassFlow::parse(field, s) {
-                Ok(m) => Ok(TotalFlow::Mass(m)),
-                Err(UnitError::UnknownUnit {
-                    accepted: mass_units, ..
-                }) => bail!("{field}: unknown flow unit '{unit}' (molar: {molar_units}; mass: {mass_units})"),
-                Err(e) => Err(e.into()),
-            },
-            Err(e) => Err(e.into()),
-        },
+        Value::String(s) => Ok(match molar_or_mass(field, s, MolarFlow::parse, MassFlow::parse)? {
+            MolarOrMass::Molar(m) => TotalFlow::Molar(m),
+            MolarOrMass::Mass(m) => TotalFlow::Mass(m),
+        }),
         other => bail!(
             "{field}: expected a number (mol/s) or a string like '3.6 kmol/h' or '1200 kg/h', got {} {}",
             kind_of(other),
             show(other)
         ),
+    }
+}
+
+/// A flow read by [`molar_or_mass`].
+enum MolarOrMass<M, W> {
+    Molar(M),
+    Mass(W),
+}
+
+/// A flow given as text: tried in molar units, then (for a unit that is not molar) in mass
+/// units; a unit that is neither is refused with both lists of accepted units. Any other
+/// error (a bad number, a value out of range) is the parser's own, in the user's unit.
+fn molar_or_mass<M, W>(
+    field: &str,
+    text: &str,
+    molar: impl FnOnce(&str, &str) -> Result<M, UnitError>,
+    mass: impl FnOnce(&str, &str) -> Result<W, UnitError>,
+) -> CliResult<MolarOrMass<M, W>> {
+    match molar(field, text) {
+        Ok(m) => Ok(MolarOrMass::Molar(m)),
+        Err(UnitError::UnknownUnit {
+            unit,
+            accepted: molar_units,
+            ..
+        }) => match mass(field, text) {
+            Ok(w) => Ok(MolarOrMass::Mass(w)),
+            Err(UnitError::UnknownUnit {
+                accepted: mass_units, ..
+            }) => bail!("{field}: unknown flow unit '{unit}' (molar: {molar_units}; mass: {mass_units})"),
+            Err(e) => Err(e.into()),
+        },
+        Err(e) => Err(e.into()),
     }
 }
 
@@ -541,21 +562,12 @@ fn component_flow(field: &str, v: &Value) -> CliResult<ComponentFlow> {
         Value::String(s) => {
             // Parse the number and unit without the positivity check, so that 0 is allowed.
             use flashduty::units::{QuantityKind, parse_si};
-            match parse_si(QuantityKind::MolarFlow, field, s) {
-                Ok(x) => Ok(ComponentFlow::Molar(check(x)?)),
-                Err(UnitError::UnknownUnit {
-                    unit,
-                    accepted: molar_units,
-                    ..
-                }) => match parse_si(QuantityKind::MassFlow, field, s) {
-                    Ok(x) => Ok(ComponentFlow::Mass(check(x)?)),
-                    Err(UnitError::UnknownUnit {
-                        accepted: mass_units, ..
-                    }) => bail!("{field}: unknown flow unit '{unit}' (molar: {molar_units}; mass: {mass_units})"),
-                    Err(e) => Err(e.into()),
-                },
-                Err(e) => Err(e.into()),
-            }
+            let molar = |f: &str, s: &str| parse_si(QuantityKind::MolarFlow, f, s);
+            let mass = |f: &str, s: &str| parse_si(QuantityKind::MassFlow, f, s);
+            Ok(match molar_or_mass(field, s, molar, mass)? {
+                MolarOrMass::Molar(x) => ComponentFlow::Molar(check(x)?),
+                MolarOrMass::Mass(x) => ComponentFlow::Mass(check(x)?),
+            })
         }
         other => bail!(
             "{field}: expected a number (mol/s) or a string like '3.6 kmol/h', got {} {}",
