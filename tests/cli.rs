@@ -63,6 +63,11 @@ fn assert_error_output(out: &std::process::Output, needles: &[&str]) {
     );
 }
 
+/// Runs `check` on the sheet at `path`, writing its JUnit report to `junit`.
+fn check_with_junit(path: &Path, junit: &Path) -> std::process::Output {
+    bin().arg("check").arg(path).arg("--junit").arg(junit).output().unwrap()
+}
+
 /// Asserts that `command` with `case` on stdin fails with one line naming the needles.
 fn fails(command: &str, case: &str, needles: &[&str]) {
     let out = bin().args([command, "-"]).write_stdin(case).output().unwrap();
@@ -727,13 +732,7 @@ fn altered_check_sheet_fails_and_names_the_row() {
     let path = dir.path().join("altered.csv");
     std::fs::write(&path, &altered).unwrap();
     let junit = dir.path().join("junit.xml");
-    let out = bin()
-        .arg("check")
-        .arg(&path)
-        .arg("--junit")
-        .arg(&junit)
-        .output()
-        .unwrap();
+    let out = check_with_junit(&path, &junit);
     assert_eq!(out.status.code(), Some(1));
     let text = String::from_utf8(out.stdout).unwrap();
     assert!(text.contains(&format!("row {line} (bubble-toluene)")), "{text}");
@@ -782,13 +781,7 @@ nokey,bubble,water,1,1 atm,373.12,0.25
     let path = dir.path().join("sheet.csv");
     std::fs::write(&path, &sheet).unwrap();
     let junit = dir.path().join("j.xml");
-    let out = bin()
-        .arg("check")
-        .arg(&path)
-        .arg("--junit")
-        .arg(&junit)
-        .output()
-        .unwrap();
+    let out = check_with_junit(&path, &junit);
     assert_eq!(out.status.code(), Some(1));
     let text = String::from_utf8(out.stdout).unwrap();
     assert!(text.trim_end().ends_with("2 passed, 5 failed"), "{text}");
@@ -832,13 +825,7 @@ fn junit_escapes_markup() {
     let path = dir.path().join("sheet <&>.csv");
     std::fs::write(&path, sheet).unwrap();
     let junit = dir.path().join("j.xml");
-    let out = bin()
-        .arg("check")
-        .arg(&path)
-        .arg("--junit")
-        .arg(&junit)
-        .output()
-        .unwrap();
+    let out = check_with_junit(&path, &junit);
     assert_eq!(out.status.code(), Some(1));
     let xml = std::fs::read_to_string(&junit).unwrap();
     well_formed(&xml);
