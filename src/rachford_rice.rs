@@ -832,7 +832,7 @@ impl<'a> Oriented<'a> {
         // POLISH_ULPS units in its last place (K-values all near 1, or a root within a
         // hair of β = 0 or 1), finish with Newton steps on G evaluated in double-double.
         if scale.is_nan() || scale > POLISH_ULPS * s * dg.abs() {
-            let (polished, steps) = self.polish::<LIQUID>(s, bracket);
+            let (polished, steps) = self.polish::<LIQUID>(s, (bracket.0.max(f64::MIN_POSITIVE), bracket.1));
             s = polished;
             evaluations += steps;
             iterations += steps;
@@ -845,8 +845,7 @@ impl<'a> Oriented<'a> {
     /// zᵢaᵢ/(pᵢ + s aᵢ) and their sum carried to about ε², with the raw z, whose root is the
     /// same), from `s` inside `bracket`: the root of the given f64 inputs to about ε
     /// relative however ill-conditioned G is in f64. Returns s and the steps taken.
-    fn polish<const LIQUID: bool>(&self, mut s: f64, bracket: (f64, f64)) -> (f64, u32) {
-        let (lo, hi) = (bracket.0.max(f64::MIN_POSITIVE), bracket.1);
+    fn polish<const LIQUID: bool>(&self, mut s: f64, (lo, hi): (f64, f64)) -> (f64, u32) {
         let mut steps = 0;
         while steps < POLISH_STEPS {
             steps += 1;
@@ -957,16 +956,20 @@ impl<'a> Oriented<'a> {
         }
     }
 
-    /// The denominator pᵢ + s aᵢ at s = s₋ + r, written cᵢ + r aᵢ with cᵢ = pᵢ + s₋aᵢ its
-    /// value at the nearest pole s₋, taken as exactly 0 for the component(s) whose pole it
-    /// is. s₋ + r rounds away any r below ε|s₋|; this form keeps the pole component's
-    /// denominator, aᵢr, to full precision however close the root is to the pole.
+    /// The denominator pᵢ + s aᵢ at s = s₋ + r: exactly aᵢr for the component(s) whose pole
+    /// s₋ is, else pᵢ + s aᵢ. s₋ + r rounds away any r below ε|s₋|, so the pole component's
+    /// denominator, aᵢr, is written from r to keep full precision however close the root is
+    /// to the pole. The others are written from s, not as (pᵢ + s₋aᵢ) + r aᵢ: far from the
+    /// pole (|s| ≪ |s₋|) that sum would cancel to a rounding error of ε|s₋ aᵢ|, not ε|s aᵢ|.
     #[inline]
     fn denominator_from_pole(&self, i: usize, r: f64) -> f64 {
         let (p, a) = self.coefficients(i);
         let pole = self.pole_lo;
-        let c = if a > 0.0 && -p / a == pole { 0.0 } else { p + pole * a };
-        c + r * a
+        if a > 0.0 && -p / a == pole {
+            r * a
+        } else {
+            p + (pole + r) * a
+        }
     }
 
     /// [`g_and_slope`](Self::g_and_slope) at s = s₋ + r, through
@@ -1073,8 +1076,23 @@ fn negative_root(
         }
         r = next;
     }
-    let s = pole + r;
-    problem.write_from_pole(r, x, y);
+    let mut s = pole + r;
+    if r > 0.5 * -pole {
+        // Nearer 0 than the pole, s resolves the root more finely than r (a root at
+        // s = −6e8 with the pole at −1e12 would keep only 3e-13 of relative precision in r):
+        // finish with Newton steps on s, G in double-double, inside the bracket.
+        let bracket = ((pole + lo).min(s), (pole + hi).max(s));
+        let (polished, steps) = match orientation {
+            Orientation::Liquid => problem.polish::<true>(s, bracket),
+            Orientation::Vapour => problem.polish::<false>(s, bracket),
+        };
+        s = polished;
+        evaluations += steps;
+        iterations += steps;
+        problem.write(s, x, y);
+    } else {
+        problem.write_from_pole(r, x, y);
+    }
     let mut summary = problem.summary(s, iterations, evaluations);
     summary.phase = match orientation {
         Orientation::Liquid => Phase::Liquid,

@@ -710,6 +710,12 @@ fn negative_flash_against_the_binary_closed_form() {
         ([0.9, 0.1], [3.0, 0.99]),
         ([0.01, 0.99], [1e6, 1e-6]),
         ([0.5, 0.5], [1e15, 0.5]),
+        // Superheated, the root (β ≈ 6e8) far from the pole (β₊ ≈ 1e12): found by a random
+        // run, when the denominators were written from the pole and cancelled there.
+        (
+            [0.9993832121965781, 0.000616787803421836],
+            [0.999999999999, 203601381.1750209],
+        ),
     ] {
         let plain = rachford_rice(&z, &k).unwrap();
         let s = rachford_rice_with(&z, &k, nf).unwrap();
@@ -729,6 +735,18 @@ fn negative_flash_against_the_binary_closed_form() {
             "{z:?} {k:?}: 1 − β = {:e} vs {gamma:e}",
             s.liquid_fraction
         );
+        // The material balance, relative to the size of its terms.
+        let (x, y) = (xs(&s), ys(&s));
+        let zn = normalised(&z);
+        for i in 0..2 {
+            let back = s.liquid_fraction * x[i] + s.vapour_fraction * y[i];
+            let size = s.liquid_fraction.abs() * x[i] + s.vapour_fraction.abs() * y[i];
+            assert!(
+                (back - zn[i]).abs() <= 1e-13 * size,
+                "{z:?} {k:?}: component {i}: {back:e} vs {:e}",
+                zn[i]
+            );
+        }
     }
     // All K on one side of 1: no root in the pole window, the single-phase result.
     let s = rachford_rice_with(&[0.5, 0.5], &[3.0, 2.0], nf).unwrap();
