@@ -502,7 +502,8 @@ fn in_pairs(z: &[f64], k: &[f64], mut f: impl FnMut(f64x2, f64x2)) {
 }
 
 /// The Leibovici–Neoschil bounds from a pair of components (raw or normalised zᵢ):
-/// [lower β, upper β, lower γ], ∓∞ where a component gives none; the upper bound on
+/// [lower β, upper β, lower γ], NaN (every bit set) where a component gives none, which
+/// [`Window::add`] passes over; the upper bound on
 /// γ = 1 − β is 1 − (lower β), formed in [`Window::finish`].
 ///
 /// From yᵢ ≤ 1 (Kᵢ > 1) and xᵢ ≤ 1 (Kᵢ < 1). `q` is 1/(Kᵢ − 1). The lower bound on γ is
@@ -519,13 +520,13 @@ fn in_pairs(z: &[f64], k: &[f64], mut f: impl FnMut(f64x2, f64x2)) {
 #[inline(always)]
 fn bounds(z: f64x2, k: f64x2, q: f64x2, u: f64) -> [f64x2; 3] {
     let one = f64x2::ONE;
-    let (lo, hi) = (f64x2::splat(f64::NEG_INFINITY), f64x2::splat(f64::INFINITY));
     let kz = k * z;
-    let below = k.simd_lt(one);
+    // OR with a comparison's all-ones lanes: one instruction, where a select takes three.
+    let not_below = k.simd_ge(one);
     [
-        k.simd_gt(one).select((kz - one - u * (one + kz)) * q, lo),
-        below.select((z - one - u * (one + z)) * q, hi),
-        below.select((k - z + u * (z + k)) * q, lo),
+        ((kz - one - u * (one + kz)) * q) | k.simd_le(one),
+        ((z - one - u * (one + z)) * q) | not_below,
+        ((k - z + u * (z + k)) * q) | not_below,
     ]
 }
 
@@ -554,13 +555,16 @@ impl Window {
         Self([lo, hi, lo])
     }
 
+    /// Takes in the bounds of a pair; a NaN bound leaves the running one as it is (the
+    /// hardware's max and min return their second operand when either is NaN). The running
+    /// bounds are never NaN: a bound that [`bounds`] does not mask is finite for valid input
+    /// (q is ±∞ only where K = 1, which is masked).
     #[inline(always)]
     fn add(&mut self, b: [f64x2; 3]) {
         let w = &mut self.0;
-        // (fast_max and fast_min: no bound is NaN, since q is ±∞ only where it is masked.)
-        w[0] = w[0].fast_max(b[0]);
-        w[1] = w[1].fast_min(b[1]);
-        w[2] = w[2].fast_max(b[2]);
+        w[0] = b[0].fast_max(w[0]);
+        w[1] = b[1].fast_min(w[1]);
+        w[2] = b[2].fast_max(w[2]);
     }
 
     /// [lower β, upper β, lower γ, upper γ]; the last is 1 − (lower β) plus the absolute
@@ -615,8 +619,10 @@ impl SetUp {
             let t = k - one;
             sum += z;
             f0 += z * t;
+            // Masks by AND (0 where absent) and OR (NaN where absent, passed over by the
+            // fast min): one instruction each, where a select takes three.
             let present = z.simd_gt(zero);
-            f1 += present.select(z * t / k, zero);
+            f1 += (z * t / k) & present;
             // rᵢ = (Kᵢ − 1)/(1 + ½(Kᵢ − 1)) = 2(Kᵢ − 1)/(Kᵢ + 1), doubled after the division
             // so that no Kᵢ near the top of the f64 range overflows.
             let r = t / (k + one);
@@ -625,8 +631,8 @@ impl SetUp {
             half[0] += term;
             half[1] -= term * r;
             half[2] += term * r * r;
-            k_min = k_min.fast_min(present.select(k, f64x2::splat(f64::INFINITY)));
-            k_max = k_max.fast_max(present.select(k, zero));
+            k_min = (k | z.simd_le(zero)).fast_min(k_min);
+            k_max = k_max.fast_max(k & present);
             window.add(bounds(z, k, one / t, u));
         });
         let [k_min, k_max] = [k_min.to_array(), k_max.to_array()];
