@@ -981,23 +981,36 @@ impl<'a> Oriented<'a> {
         }
     }
 
-    /// [`g_and_slope`](Self::g_and_slope) at s = s₋ + r, through
-    /// [`denominator_from_pole`](Self::denominator_from_pole); zero-feed components skipped.
-    fn g_and_slope_from_pole(&self, r: f64) -> (f64, f64, f64) {
-        let (mut g, mut dg, mut scale) = (0.0, 0.0, 0.0);
+    /// At s = s₋ + r: [m, R, R′, scale], where the component(s) whose pole s₋ is contribute
+    /// exactly z_p/r to G (z_p their normalised feed), R is the rest of G and R′ its slope,
+    /// m = rG = z_p + rR, and scale = r·Σ|terms of G|, the scale of m's round-off.
+    /// Zero-feed components are skipped.
+    ///
+    /// Near the pole, G and G′ are dominated by z_p/r and −z_p/r²; Newton's step on the
+    /// pole-weighted function formed from them is then a difference of huge terms that
+    /// cancel to nothing (at r = 1e-154 every digit goes), and the iteration stalls. From
+    /// m, R and R′ it has no such difference ([`negative_near_pole`](Self::negative_near_pole)).
+    fn pole_split_from_pole(&self, r: f64) -> [f64; 4] {
+        let pole = self.pole_lo;
+        let s = pole + r;
+        let (mut z_pole, mut rest, mut slope, mut size) = (0.0, 0.0, 0.0, 0.0);
         for i in 0..self.z.len() {
             if self.z[i] == 0.0 {
                 continue;
             }
-            let (_, a) = self.coefficients(i);
+            let (p, a) = self.coefficients(i);
             let zi = self.z[i] * self.inv_sum;
-            let q = a / self.denominator_from_pole(i, r);
+            if a > 0.0 && -p / a == pole {
+                z_pole += zi;
+                continue;
+            }
+            let q = a / (p + s * a);
             let term = zi * q;
-            g += term;
-            dg -= term * q;
-            scale += term.abs();
+            rest += term;
+            slope -= term * q;
+            size += term.abs();
         }
-        (g, dg, scale)
+        [z_pole + r * rest, rest, slope, z_pole + r * size]
     }
 
     /// [`write`](Self::write) at s = s₋ + r.
@@ -1051,7 +1064,7 @@ fn negative_root(
     let pole = problem.pole_lo;
     let mid = 0.5 * pole;
     // (r = −s₋/2 is exact, and so is s₋ + r = s₋/2.)
-    let (g_mid, _, _) = problem.g_and_slope_from_pole(-mid);
+    let [g_mid, ..] = problem.pole_split_from_pole(-mid);
     let (s, iterations, evaluations) = if g_mid > 0.0 {
         let (s, iterations, evaluations) = match orientation {
             Orientation::Liquid => problem.negative_near_zero::<true>(mid),
@@ -1143,7 +1156,8 @@ impl Oriented<'_> {
 
     /// The negative-flash root in r = s − s₋ ∈ (0, `hi`], hi = −s₋/2 with G(s₋ + hi) ≤ 0:
     /// Newton on the pole-weighted function with a bracket, bisection on the float ordering
-    /// of r after NEWTON_STEPS, G from [`g_and_slope_from_pole`](Self::g_and_slope_from_pole).
+    /// of r after NEWTON_STEPS, G split at the pole by
+    /// [`pole_split_from_pole`](Self::pole_split_from_pole).
     /// Returns r, iterations, evaluations.
     fn negative_near_pole(&self, hi: f64) -> (f64, u32, u32) {
         let pole = self.pole_lo;
@@ -1151,20 +1165,24 @@ impl Oriented<'_> {
         let mut r = hi;
         let (mut iterations, mut evaluations) = (0, 0);
         loop {
-            let (g, dg, scale) = self.g_and_slope_from_pole(r);
+            // m = rG has G's sign.
+            let [m, rest, slope, scale] = self.pole_split_from_pole(r);
             evaluations += 1;
             iterations += 1;
-            if g == 0.0 {
+            if m == 0.0 {
                 break;
             }
-            if g > 0.0 {
+            if m > 0.0 {
                 lo = lo.max(r);
             } else {
                 hi = hi.min(r);
             }
             let next = if iterations <= NEWTON_STEPS {
-                let candidate = r - self.pole_weighted_newton_step(pole + r, g, dg);
-                if candidate.is_finite() && g.abs() <= ROUND_OFF * f64::EPSILON * scale {
+                // Newton's step on H = r(s₊ − s)G = v·m, v = s₊ − s: H/H′ =
+                // m/(R + rR′ − m/v), v = ∞ where there is no pole above.
+                let v = self.pole_hi - (pole + r);
+                let candidate = r - m / (rest + r * slope - m / v);
+                if candidate.is_finite() && m.abs() <= ROUND_OFF * f64::EPSILON * scale {
                     // G is down to its round-off (see `solve_into`).
                     r = candidate.max(lo.max(f64::MIN_POSITIVE)).min(hi);
                     break;
