@@ -10,11 +10,13 @@ pub(crate) mod component;
 mod heat_capacity;
 mod latent_heat;
 mod vapour_pressure;
+mod virial;
 
 pub use component::{Component, ComponentError, Provenance, Sourced};
 pub use heat_capacity::{ConstantCp, HeatCapacity, HeatCapacityModel, PolynomialCp, ShomateCp};
 pub use latent_heat::{Dippr106, LatentHeat, LatentHeatModel, Watson};
 pub use vapour_pressure::{Antoine, AntoineForm, ExtendedAntoine, VapourPressure, VapourPressureModel};
+pub use virial::{PitzerCurlVirial, VIRIAL_REDUCED_PRESSURE_PER_REDUCED_TEMPERATURE};
 
 use serde::{Deserialize, Serialize};
 
