@@ -6,12 +6,14 @@
 //! - the heater duty against two T–P flashes (the enthalpy table and path spread are the rest);
 //! - the duty-specified flash against the heater duty;
 //! - the hot-loop `DutyCalculator` (the duty and states only: no table, path spread or
-//!   warnings, no allocation) against the full functions, which return all of them.
+//!   warnings, no allocation) against the full functions, which return all of them;
+//! - the `DutyCalculator` with the second-virial vapour against the same with the default
+//!   ideal-gas vapour.
 //!
 //! The mixture is n = 10 library hydrocarbons (an invented feed).
 
 use criterion::{Criterion, criterion_group, criterion_main};
-use flashduty::energy::{DutyCalculator, DutyOptions, Stream, StreamState, heater_duty, outlet_for_duty};
+use flashduty::energy::{DutyCalculator, DutyOptions, Stream, StreamState, VapourModel, heater_duty, outlet_for_duty};
 use flashduty::equilibrium::{FlashSpec, KValueModel, KValues, Raoult, TpFlasher, flash};
 use flashduty::fit::{DataPoint, fit_antoine};
 use flashduty::properties::{Antoine, VapourPressure};
@@ -158,6 +160,26 @@ fn bench(c: &mut Criterion) {
     g.bench_function("duty-specified flash, outlet state only (DutyCalculator)", |b| {
         b.iter(|| {
             calc.outlet_for_duty(black_box(inlet), q, p)
+                .map(|s| s.outlet.temperature_k)
+        })
+    });
+    let virial = DutyOptions {
+        vapour_model: VapourModel::SecondVirial,
+        ..o
+    };
+    let mut calc_virial = DutyCalculator::new(&stream, virial).expect("calculator");
+    g.bench_function("heater duty (T-P to T-P), DutyCalculator, second-virial vapour", |b| {
+        b.iter(|| calc_virial.duty(black_box(inlet), outlet).map(|s| s.duty_w))
+    });
+    let q_virial = Power::new(
+        "duty",
+        heater_duty(&stream, inlet, outlet, virial).expect("duty").duty_w,
+    )
+    .expect("duty");
+    g.bench_function("duty-specified flash, DutyCalculator, second-virial vapour", |b| {
+        b.iter(|| {
+            calc_virial
+                .outlet_for_duty(black_box(inlet), q_virial, p)
                 .map(|s| s.outlet.temperature_k)
         })
     });

@@ -61,6 +61,32 @@ pub enum Warning {
         /// The spread relative to the latent heat.
         relative: f64,
     },
+    /// The second-virial vapour correction was used at a reduced pressure above half the
+    /// reduced temperature (Pr > Tr/2, common practice), where the truncated virial
+    /// equation is unreliable: at high pressure, or for a saturated vapour near its critical
+    /// point. The vapour enthalpy there is rough.
+    ///
+    /// ```
+    /// use flashduty::warnings::Warning;
+    /// let w = Warning::VirialOutOfRange {
+    ///     component: "water".into(), temperature_k: 600.0, pressure_pa: 12e6,
+    ///     reduced_temperature: 0.927, reduced_pressure: 0.544,
+    /// };
+    /// assert!(w.to_string().starts_with("water: the second-virial vapour correction"));
+    /// assert!(serde_json::to_string(&w).unwrap().contains("\"kind\":\"virial-out-of-range\""));
+    /// ```
+    VirialOutOfRange {
+        /// The component.
+        component: String,
+        /// The temperature, K.
+        temperature_k: f64,
+        /// The pressure, Pa.
+        pressure_pa: f64,
+        /// T/Tc.
+        reduced_temperature: f64,
+        /// P/Pc.
+        reduced_pressure: f64,
+    },
 }
 
 impl fmt::Display for Warning {
@@ -99,6 +125,18 @@ impl fmt::Display for Warning {
                 "{component}: enthalpy paths differ by {spread_j_per_mol:.0} J/mol ({:.1} % of the latent heat); its Cp and latent-heat data disagree",
                 100.0 * relative
             ),
+            Warning::VirialOutOfRange {
+                component,
+                temperature_k,
+                pressure_pa,
+                reduced_temperature,
+                reduced_pressure,
+            } => write!(
+                f,
+                "{component}: the second-virial vapour correction is used at {temperature_k:.2} K and {:.1} kPa (Pr {reduced_pressure:.3} above Tr/2 = {:.3}), where the truncated virial equation is unreliable; the vapour enthalpy there is rough",
+                pressure_pa / 1e3,
+                crate::properties::VIRIAL_REDUCED_PRESSURE_PER_REDUCED_TEMPERATURE * reduced_temperature
+            ),
         }
     }
 }
@@ -122,6 +160,7 @@ pub(crate) fn push_unique(list: &mut Vec<Warning>, w: Warning) {
         (Warning::Supercritical { component: c1, .. }, Warning::Supercritical { component: c2, .. }) => c1 == c2,
         (Warning::HighPressure { .. }, Warning::HighPressure { .. }) => true,
         (Warning::PathSpread { component: c1, .. }, Warning::PathSpread { component: c2, .. }) => c1 == c2,
+        (Warning::VirialOutOfRange { component: c1, .. }, Warning::VirialOutOfRange { component: c2, .. }) => c1 == c2,
         _ => false,
     };
     if !list.iter().any(same) {

@@ -5,14 +5,15 @@ mod common;
 
 use common::{fixture, num};
 use flashduty::energy::{
-    DutyOptions, EnergyError, ReferencePhase, ReferenceState, Stream, StreamState, VaporisationPath, heater_duty,
-    heating_curve, outlet_for_duty,
+    DutyOptions, EnergyError, EnthalpyModel, ReferencePhase, ReferenceState, Stream, StreamState, VaporisationPath,
+    VapourModel, heater_duty, heating_curve, outlet_for_duty,
 };
 use flashduty::equilibrium::{FlashSpec, Raoult, flash};
 use flashduty::library::Library;
-use flashduty::properties::{HeatCapacity, LatentHeat};
+use flashduty::properties::{HeatCapacity, LatentHeat, PitzerCurlVirial, VapourPressure};
 use flashduty::rachford_rice::Phase;
 use flashduty::units::{MassFlow, MolarFlow, Power, Pressure, Temperature};
+use flashduty::warnings::Warning;
 use proptest::prelude::*;
 
 const ATM: f64 = 101_325.0;
@@ -103,7 +104,7 @@ fn mixtures() -> impl Strategy<Value = (Vec<String>, Vec<f64>)> {
     common::mixtures(1, 5)
 }
 
-fn options(phase: bool, t_ref: f64, path: VaporisationPath) -> DutyOptions {
+fn options_with(phase: bool, t_ref: f64, path: VaporisationPath, vapour_model: VapourModel) -> DutyOptions {
     DutyOptions {
         reference: ReferenceState {
             phase: if phase {
@@ -114,11 +115,160 @@ fn options(phase: bool, t_ref: f64, path: VaporisationPath) -> DutyOptions {
             temperature_k: t_ref,
         },
         path,
+        vapour_model,
+    }
+}
+
+/// The second-virial vapour model with the default reference state and path.
+fn virial() -> DutyOptions {
+    DutyOptions {
+        vapour_model: VapourModel::SecondVirial,
+        ..DutyOptions::default()
     }
 }
 
 fn rel(a: f64, b: f64) -> f64 {
     (a - b).abs() / a.abs().max(b.abs()).max(1e-300)
+}
+
+/// Q(A→B) + Q(B→C) = Q(A→C) to 1e-9; for paths (a) and (b) the duty does not depend on
+/// the reference temperature or phase.
+#[allow(clippy::too_many_arguments)]
+fn check_state_function(
+    names: &[String],
+    z: &[f64],
+    (ta, tb, tc): (f64, f64, f64),
+    (pa, pb, pc): (f64, f64, f64),
+    t_ref: f64,
+    vapour_ref: bool,
+    path_index: usize,
+    vapour_model: VapourModel,
+) -> Result<(), TestCaseError> {
+    let s = Stream::from_names(names, z, MolarFlow::new("flow", 3.0).unwrap()).unwrap();
+    let path = VaporisationPath::ALL[path_index];
+    let o = options_with(vapour_ref, t_ref, path, vapour_model);
+    let (a, b, c) = (tp(ta, pa), tp(tb, pb), tp(tc, pc));
+    let ab = heater_duty(&s, a, b, o).unwrap().duty_w;
+    let bc = heater_duty(&s, b, c, o).unwrap().duty_w;
+    let ac = heater_duty(&s, a, c, o).unwrap().duty_w;
+    let scale = ab.abs().max(bc.abs()).max(ac.abs()).max(1.0);
+    prop_assert!((ab + bc - ac).abs() <= 1e-9 * scale, "{ab} + {bc} != {ac}");
+    if path != VaporisationPath::ReferenceTemperature {
+        let base_options = DutyOptions {
+            path,
+            vapour_model,
+            ..DutyOptions::default()
+        };
+        let base = heater_duty(&s, a, c, base_options).unwrap().duty_w;
+        prop_assert!(
+            (ac - base).abs() <= 1e-9 * base.abs().max(1.0),
+            "{ac} vs {base} ({o:?})"
+        );
+    }
+    Ok(())
+}
+
+/// The duty-specified flash inverts the heater duty: outlet T within 1e-6 K and vapour
+/// fraction within 1e-9, including pure components across their boiling point.
+fn check_inversion(
+    names: &[String],
+    z: &[f64],
+    t_in: f64,
+    p: Pressure,
+    beta_out: f64,
+    mode: u8,
+    o: DutyOptions,
+) -> Result<(), TestCaseError> {
+    let s = Stream::from_names(names, z, MolarFlow::new("flow", 2.0).unwrap()).unwrap();
+    let model = Raoult::from_names(names).unwrap();
+    let bub = flash(&model, z, FlashSpec::BubbleTemperature { pressure: p })
+        .unwrap()
+        .temperature_k;
+    let dew = flash(&model, z, FlashSpec::DewTemperature { pressure: p })
+        .unwrap()
+        .temperature_k;
+    // Outlet: subcooled, two-phase (on β, so pure components are covered) or superheated.
+    let outlet = match mode {
+        0 => tp(bub - 5.0 - 40.0 * beta_out, p.pascal()),
+        1 => StreamState::PressureVapourFraction {
+            pressure: p,
+            vapour_fraction: beta_out,
+        },
+        _ => tp(dew + 5.0 + 40.0 * beta_out, p.pascal()),
+    };
+    let inlet = tp(t_in, p.pascal());
+    let forward = heater_duty(&s, inlet, outlet, o).unwrap();
+    let back = outlet_for_duty(&s, inlet, Power::new("duty", forward.duty_w).unwrap(), p, o).unwrap();
+    prop_assert!(
+        (back.outlet.temperature_k - forward.outlet.temperature_k).abs() < 1e-6,
+        "T {} vs {}",
+        back.outlet.temperature_k,
+        forward.outlet.temperature_k
+    );
+    prop_assert!(
+        (back.outlet.vapour_fraction - forward.outlet.vapour_fraction).abs() < 1e-9,
+        "beta {} vs {}",
+        back.outlet.vapour_fraction,
+        forward.outlet.vapour_fraction
+    );
+    Ok(())
+}
+
+/// dQ/dT_out at `p_pa`, analytic, agrees with a central difference.
+fn check_slope(
+    names: &[String],
+    z: &[f64],
+    beta: f64,
+    side: u8,
+    p_pa: f64,
+    o: DutyOptions,
+) -> Result<(), TestCaseError> {
+    let s = Stream::from_names(names, z, MolarFlow::new("flow", 1.5).unwrap()).unwrap();
+    let p = Pressure::new("P", p_pa).unwrap();
+    let model = Raoult::from_names(names).unwrap();
+    // Inside the two-phase region the slope is finite only where it has a width.
+    let width = flash(&model, z, FlashSpec::DewTemperature { pressure: p })
+        .unwrap()
+        .temperature_k
+        - flash(&model, z, FlashSpec::BubbleTemperature { pressure: p })
+            .unwrap()
+            .temperature_k;
+    prop_assume!(side != 1 || width > 0.5);
+    let t_out = match side {
+        0 => {
+            flash(&model, z, FlashSpec::BubbleTemperature { pressure: p })
+                .unwrap()
+                .temperature_k
+                - 10.0
+        }
+        1 => {
+            flash(
+                &model,
+                z,
+                FlashSpec::PressureVapourFraction {
+                    pressure: p,
+                    vapour_fraction: beta,
+                },
+            )
+            .unwrap()
+            .temperature_k
+        }
+        _ => {
+            flash(&model, z, FlashSpec::DewTemperature { pressure: p })
+                .unwrap()
+                .temperature_k
+                + 10.0
+        }
+    };
+    let inlet = tp(300.0, p_pa);
+    let r = heater_duty(&s, inlet, tp(t_out, p_pa), o).unwrap();
+    let slope = r.dduty_dt_out_w_per_k.unwrap();
+    let h = if side == 1 { 1e-6 } else { 1e-3 };
+    let up = heater_duty(&s, inlet, tp(t_out + h, p_pa), o).unwrap().duty_w;
+    let down = heater_duty(&s, inlet, tp(t_out - h, p_pa), o).unwrap().duty_w;
+    let fd = (up - down) / (2.0 * h);
+    prop_assert!(rel(fd, slope) < 1e-4, "fd {fd} vs analytic {slope}");
+    Ok(())
 }
 
 proptest! {
@@ -134,19 +284,20 @@ proptest! {
         t_ref in 250.0f64..350.0, vapour_ref in any::<bool>(),
         path_index in 0usize..3,
     ) {
-        let s = Stream::from_names(&names, &z, MolarFlow::new("flow", 3.0).unwrap()).unwrap();
-        let path = VaporisationPath::ALL[path_index];
-        let o = options(vapour_ref, t_ref, path);
-        let (a, b, c) = (tp(ta, pa), tp(tb, pb), tp(tc, pc));
-        let ab = heater_duty(&s, a, b, o).unwrap().duty_w;
-        let bc = heater_duty(&s, b, c, o).unwrap().duty_w;
-        let ac = heater_duty(&s, a, c, o).unwrap().duty_w;
-        let scale = ab.abs().max(bc.abs()).max(ac.abs()).max(1.0);
-        prop_assert!((ab + bc - ac).abs() <= 1e-9 * scale, "{ab} + {bc} != {ac}");
-        if path != VaporisationPath::ReferenceTemperature {
-            let base = heater_duty(&s, a, c, DutyOptions { path, ..DutyOptions::default() }).unwrap().duty_w;
-            prop_assert!((ac - base).abs() <= 1e-9 * base.abs().max(1.0), "{ac} vs {base} ({o:?})");
-        }
+        check_state_function(&names, &z, (ta, tb, tc), (pa, pb, pc), t_ref, vapour_ref, path_index, VapourModel::IdealGas)?;
+    }
+
+    /// The same with the second-virial vapour, whose enthalpy depends on pressure: still a
+    /// state function, and still independent of the reference along paths (a) and (b).
+    #[test]
+    fn duty_is_a_state_function_with_second_virial(
+        (names, z) in mixtures(),
+        ta in 250.0f64..550.0, tb in 250.0f64..550.0, tc in 250.0f64..550.0,
+        pa in 2e4f64..5e5, pb in 2e4f64..5e5, pc in 2e4f64..5e5,
+        t_ref in 250.0f64..350.0, vapour_ref in any::<bool>(),
+        path_index in 0usize..3,
+    ) {
+        check_state_function(&names, &z, (ta, tb, tc), (pa, pb, pc), t_ref, vapour_ref, path_index, VapourModel::SecondVirial)?;
     }
 
     /// The duty-specified flash inverts the heater duty: outlet T within 1e-6 K and vapour
@@ -159,49 +310,45 @@ proptest! {
         beta_out in 0.0f64..1.0,
         mode in 0u8..3,
     ) {
-        let s = Stream::from_names(&names, &z, MolarFlow::new("flow", 2.0).unwrap()).unwrap();
         let p = Pressure::new("P", log_p.exp()).unwrap();
-        let model = Raoult::from_names(&names).unwrap();
-        let bub = flash(&model, &z, FlashSpec::BubbleTemperature { pressure: p }).unwrap().temperature_k;
-        let dew = flash(&model, &z, FlashSpec::DewTemperature { pressure: p }).unwrap().temperature_k;
-        // Outlet: subcooled, two-phase (on β, so pure components are covered) or superheated.
-        let outlet = match mode {
-            0 => tp(bub - 5.0 - 40.0 * beta_out, p.pascal()),
-            1 => StreamState::PressureVapourFraction { pressure: p, vapour_fraction: beta_out },
-            _ => tp(dew + 5.0 + 40.0 * beta_out, p.pascal()),
-        };
-        let inlet = tp(t_in, p.pascal());
-        let forward = heater_duty(&s, inlet, outlet, DutyOptions::default()).unwrap();
-        let back = outlet_for_duty(&s, inlet, Power::new("duty", forward.duty_w).unwrap(), p, DutyOptions::default()).unwrap();
-        prop_assert!((back.outlet.temperature_k - forward.outlet.temperature_k).abs() < 1e-6,
-            "T {} vs {}", back.outlet.temperature_k, forward.outlet.temperature_k);
-        prop_assert!((back.outlet.vapour_fraction - forward.outlet.vapour_fraction).abs() < 1e-9,
-            "beta {} vs {}", back.outlet.vapour_fraction, forward.outlet.vapour_fraction);
+        check_inversion(&names, &z, t_in, p, beta_out, mode, DutyOptions::default())?;
+    }
+
+    /// The same with the second-virial vapour, over reference states and paths (a) and (c).
+    /// Path (b) is left out, as the ideal-gas test leaves it out: near a component's Tc its
+    /// vapour enthalpy falls with temperature (the latent heat at T drops to zero faster than
+    /// the liquid's Cp rises), with either vapour model, so a duty can have two outlets.
+    #[test]
+    fn duty_specified_flash_inverts_heater_duty_with_second_virial(
+        (names, z) in mixtures(),
+        t_in in 260.0f64..400.0,
+        log_p in (3e4f64).ln()..(4e5f64).ln(),
+        beta_out in 0.0f64..1.0,
+        mode in 0u8..3,
+        t_ref in 250.0f64..350.0, vapour_ref in any::<bool>(), path_c in any::<bool>(),
+    ) {
+        let p = Pressure::new("P", log_p.exp()).unwrap();
+        let path = if path_c { VaporisationPath::ReferenceTemperature } else { VaporisationPath::BoilingPoint };
+        let o = options_with(vapour_ref, t_ref, path, VapourModel::SecondVirial);
+        check_inversion(&names, &z, t_in, p, beta_out, mode, o)?;
     }
 
     /// dQ/dT_out, analytic, agrees with a central difference.
     #[test]
     fn duty_slope_matches_finite_difference((names, z) in mixtures(), beta in 0.05f64..0.95, side in 0u8..3) {
-        let s = Stream::from_names(&names, &z, MolarFlow::new("flow", 1.5).unwrap()).unwrap();
-        let p = Pressure::new("P", ATM).unwrap();
-        let model = Raoult::from_names(&names).unwrap();
-        // Inside the two-phase region the slope is finite only where it has a width.
-        let width = flash(&model, &z, FlashSpec::DewTemperature { pressure: p }).unwrap().temperature_k
-            - flash(&model, &z, FlashSpec::BubbleTemperature { pressure: p }).unwrap().temperature_k;
-        prop_assume!(side != 1 || width > 0.5);
-        let t_out = match side {
-            0 => flash(&model, &z, FlashSpec::BubbleTemperature { pressure: p }).unwrap().temperature_k - 10.0,
-            1 => flash(&model, &z, FlashSpec::PressureVapourFraction { pressure: p, vapour_fraction: beta }).unwrap().temperature_k,
-            _ => flash(&model, &z, FlashSpec::DewTemperature { pressure: p }).unwrap().temperature_k + 10.0,
-        };
-        let inlet = tp(300.0, ATM);
-        let r = heater_duty(&s, inlet, tp(t_out, ATM), DutyOptions::default()).unwrap();
-        let slope = r.dduty_dt_out_w_per_k.unwrap();
-        let h = if side == 1 { 1e-6 } else { 1e-3 };
-        let up = heater_duty(&s, inlet, tp(t_out + h, ATM), DutyOptions::default()).unwrap().duty_w;
-        let down = heater_duty(&s, inlet, tp(t_out - h, ATM), DutyOptions::default()).unwrap().duty_w;
-        let fd = (up - down) / (2.0 * h);
-        prop_assert!(rel(fd, slope) < 1e-4, "fd {fd} vs analytic {slope}");
+        check_slope(&names, &z, beta, side, ATM, DutyOptions::default())?;
+    }
+
+    /// The same with the second-virial vapour (whose slope has the residual's −P T d²B/dT²
+    /// and, along path (b), the saturation term), at pressures up to 5 bar, over every path.
+    #[test]
+    fn duty_slope_matches_finite_difference_with_second_virial(
+        (names, z) in mixtures(), beta in 0.05f64..0.95, side in 0u8..3,
+        log_p in (5e4f64).ln()..(5e5f64).ln(),
+        t_ref in 250.0f64..350.0, vapour_ref in any::<bool>(), path_index in 0usize..3,
+    ) {
+        let o = options_with(vapour_ref, t_ref, VaporisationPath::ALL[path_index], VapourModel::SecondVirial);
+        check_slope(&names, &z, beta, side, log_p.exp(), o)?;
     }
 }
 
@@ -404,4 +551,330 @@ fn every_error_variant_is_reachable() {
         .map_err(EnergyError::from)
         .unwrap_err();
     assert!(matches!(e, EnergyError::Unit(_)), "{e}");
+}
+
+// ---------------------------------------------------------------------------------------
+// The second-virial vapour model
+
+/// An IAPWS-IF97 row of a water fixture made by tools/make_iapws_water.py with iapws 1.5.5
+/// (`iapws_water_1atm.csv` at 101.325 kPa, `iapws_water_1mpa.csv` at 1 MPa): (T in K,
+/// h in J/mol) of `phase` (`liquid`, `vapour`, `saturated-liquid`, `saturated-vapour`) at
+/// `t`, or at the saturation temperature when `t` is `None`.
+fn iapws_row(file: &str, phase: &str, t: Option<f64>) -> (f64, f64) {
+    fixture(file)
+        .iter()
+        .find(|r| r["phase"] == phase && t.is_none_or(|t| (num(r, "T_K") - t).abs() < 1e-9))
+        .map(|r| (num(r, "T_K"), num(r, "h_J_per_mol")))
+        .unwrap_or_else(|| panic!("no IAPWS row {phase} {t:?} in {file}"))
+}
+
+fn pv(p: f64, beta: f64) -> StreamState {
+    StreamState::PressureVapourFraction {
+        pressure: Pressure::new("P", p).unwrap(),
+        vapour_fraction: beta,
+    }
+}
+
+/// Water at 1 atm with the second-virial vapour, against IAPWS-IF97
+/// (tests/fixtures/iapws_water_1atm.csv): steam 105 → 150 °C and saturated vapour → 150 °C
+/// within the 4 % aim the ideal gas misses (−5.3 %, `water_duty_against_iapws`); 20 → 150 °C
+/// within 1.5 % and 150 → 300 °C within 4 %, the ideal-gas limits. Both models' deviations
+/// are printed.
+#[test]
+fn water_duty_with_second_virial_against_iapws() {
+    let s = stream(&["water"], &[1.0]);
+    let file = "iapws_water_1atm.csv";
+    let (_, h_sat_vapour) = iapws_row(file, "saturated-vapour", None);
+    let cases = [
+        ("vapour 105 -> 150 degC", tp(378.15, ATM), 423.15, iapws_h(378.15), 0.04),
+        ("saturated vapour -> 150 degC", pv(ATM, 1.0), 423.15, h_sat_vapour, 0.04),
+        ("20 -> 150 degC", tp(293.15, ATM), 423.15, iapws_h(293.15), 0.015),
+        ("vapour 150 -> 300 degC", tp(423.15, ATM), 573.15, iapws_h(423.15), 0.04),
+    ];
+    for (what, inlet, t2, h1, tol) in cases {
+        let reference = iapws_h(t2) - h1;
+        let ideal = heater_duty(&s, inlet, tp(t2, ATM), DutyOptions::default()).unwrap();
+        let real = heater_duty(&s, inlet, tp(t2, ATM), virial()).unwrap();
+        let (dev_ideal, dev_real) = (ideal.duty_w / reference - 1.0, real.duty_w / reference - 1.0);
+        println!(
+            "water {what}: IAPWS-IF97 {reference:.1} W; ideal gas {:.1} W ({:+.2} %), second virial {:.1} W ({:+.2} %)",
+            ideal.duty_w,
+            100.0 * dev_ideal,
+            real.duty_w,
+            100.0 * dev_real
+        );
+        assert!(dev_real.abs() < tol, "{what}: {dev_real}");
+        assert!(
+            real.warnings
+                .iter()
+                .all(|w| !matches!(w, Warning::VirialOutOfRange { .. }))
+        );
+    }
+}
+
+/// Superheated steam at 1 MPa, where the real-gas correction matters more, against
+/// IAPWS-IF97 (tests/fixtures/iapws_water_1mpa.csv): 200 → 300 °C, saturated vapour → 300 °C,
+/// and the latent heat at 1 MPa (saturated liquid → saturated vapour). The ideal gas is
+/// printed beside the second virial; the second virial must be the closer for the vapour
+/// rows, and within the limits below (set from the measured deviations: the truncated
+/// virial equation and the Pitzer–Curl B, which has no polar term, leave part of real
+/// steam's residual enthalpy out).
+#[test]
+fn steam_at_one_megapascal_against_iapws() {
+    let s = stream(&["water"], &[1.0]);
+    let file = "iapws_water_1mpa.csv";
+    let p = 1e6;
+    let (_, h200) = iapws_row(file, "vapour", Some(473.15));
+    let (_, h300) = iapws_row(file, "vapour", Some(573.15));
+    let (_, h_f) = iapws_row(file, "saturated-liquid", None);
+    let (_, h_g) = iapws_row(file, "saturated-vapour", None);
+    let cases = [
+        (
+            "vapour 200 -> 300 degC",
+            tp(473.15, p),
+            tp(573.15, p),
+            h300 - h200,
+            0.07,
+        ),
+        (
+            "saturated vapour -> 300 degC",
+            pv(p, 1.0),
+            tp(573.15, p),
+            h300 - h_g,
+            0.07,
+        ),
+        ("latent heat at 1 MPa", pv(p, 0.0), pv(p, 1.0), h_g - h_f, 0.03),
+    ];
+    for (what, inlet, outlet, reference, tol) in cases {
+        let ideal = heater_duty(&s, inlet, outlet, DutyOptions::default()).unwrap();
+        let real = heater_duty(&s, inlet, outlet, virial()).unwrap();
+        let (dev_ideal, dev_real) = (ideal.duty_w / reference - 1.0, real.duty_w / reference - 1.0);
+        println!(
+            "water at 1 MPa, {what}: IAPWS-IF97 {reference:.1} W; ideal gas {:.1} W ({:+.2} %), second virial {:.1} W ({:+.2} %)",
+            ideal.duty_w,
+            100.0 * dev_ideal,
+            real.duty_w,
+            100.0 * dev_real
+        );
+        assert!(dev_real.abs() < tol, "{what}: {dev_real}");
+        if what.starts_with("vapour") || what.starts_with("saturated") {
+            assert!(dev_real.abs() < dev_ideal.abs(), "{what}");
+        }
+    }
+}
+
+/// The Pitzer–Curl B of water against IAPWS-95's second virial coefficient
+/// (tests/fixtures/iapws_water_second_virial.csv, iapws 1.5.5). The correlation has no
+/// polar term and underestimates |B| of water at low temperature: from 375 K to 700 K the
+/// measured deviation (−19 % at 375 K, within ±7 % above 450 K) is asserted within 20 %;
+/// below, where it grows (−43 % at 300 K), only the sign is. Propane, non-polar, at 300 K:
+/// −390 cm³/mol
+/// (J. H. Dymond and E. B. Smith, *The Virial Coefficients of Pure Gases and Mixtures*,
+/// 1980; from memory), within 5 %.
+#[test]
+fn second_virial_coefficient_against_published_values() {
+    let lib = Library::builtin();
+    let water = PitzerCurlVirial::for_component(lib.get("water").unwrap());
+    let mut worst = 0.0f64;
+    for row in fixture("iapws_water_second_virial.csv") {
+        let t = num(&row, "T_K");
+        let reference = num(&row, "B_m3_per_mol");
+        let b = water.second_virial_m3_per_mol(t);
+        let dev = b / reference - 1.0;
+        println!(
+            "water B at {t} K: {:.1} cm3/mol vs IAPWS-95 {:.1} cm3/mol ({:+.1} %)",
+            b * 1e6,
+            reference * 1e6,
+            100.0 * dev
+        );
+        assert!(b < 0.0, "{t}: {b} vs {reference}");
+        if t >= 375.0 {
+            assert!(dev.abs() < 0.2, "{t}: {b} vs {reference}");
+            worst = worst.max(dev.abs());
+        }
+    }
+    println!("worst |deviation| of water's B from 375 K: {:.1} %", 100.0 * worst);
+    let propane = PitzerCurlVirial::for_component(lib.get("propane").unwrap());
+    let b = propane.second_virial_m3_per_mol(300.0) * 1e6;
+    println!("propane B at 300 K: {b:.1} cm3/mol vs -390 (from memory)");
+    assert!((b / -390.0 - 1.0).abs() < 0.05, "{b}");
+}
+
+/// Along path (b) a vapour at its own saturation pressure gets exactly the library's latent
+/// heat over its liquid (the departure is zero there), for every library component at
+/// 0.8 Tc; and along path (a) the saturated vapour at Tb and 1 atm likewise (common
+/// practice: the latent heat is the real ΔHvap between the saturated phases).
+#[test]
+fn saturated_vapour_gets_the_library_latent_heat() {
+    let lib = Library::builtin();
+    for c in lib.components() {
+        let components = vec![lib.get(c.name()).unwrap().clone()];
+        let b = EnthalpyModel::new(
+            components.clone(),
+            ReferenceState::default(),
+            VaporisationPath::StreamTemperature,
+        )
+        .with_vapour_model(VapourModel::SecondVirial);
+        let t = 0.8 * c.critical_temperature_k();
+        let psat = c.vapour_pressure().psat_pa(t);
+        let vapour = b.pure_at(0, Phase::Vapour, t, psat);
+        let liquid = b.pure_at(0, Phase::Liquid, t, psat);
+        assert_eq!(vapour.vapour_departure_j_per_mol, 0.0, "{}", c.name());
+        let latent = c.latent_heat().latent_heat(t);
+        let diff = vapour.total_j_per_mol() - liquid.total_j_per_mol();
+        assert!(
+            (diff - latent).abs() < 1e-9 * latent,
+            "{}: {diff} vs {latent}",
+            c.name()
+        );
+        let a = EnthalpyModel::new(components, ReferenceState::default(), VaporisationPath::BoilingPoint)
+            .with_vapour_model(VapourModel::SecondVirial);
+        let tb = c.normal_boiling_point_k();
+        assert_eq!(
+            a.pure_at(0, Phase::Vapour, tb, ATM).vapour_departure_j_per_mol,
+            0.0,
+            "{}",
+            c.name()
+        );
+    }
+}
+
+/// Along path (b) the vapour's enthalpy is continuous across the critical temperature,
+/// where the latent heat reaches zero and the saturation pressure in the correction is held
+/// at Pc: the step across Tc ± 1e-7 K is a few J/mol (the Watson form's steep approach to
+/// zero), not the thousands of J/mol of H^R at the critical point.
+#[test]
+fn path_b_vapour_is_continuous_across_the_critical_temperature() {
+    let lib = Library::builtin();
+    for name in ["propane", "water", "benzene"] {
+        let c = lib.get(name).unwrap();
+        let m = EnthalpyModel::new(
+            vec![c.clone()],
+            ReferenceState::default(),
+            VaporisationPath::StreamTemperature,
+        )
+        .with_vapour_model(VapourModel::SecondVirial);
+        let tc = c.critical_temperature_k();
+        let h = |t: f64| m.pure_at(0, Phase::Vapour, t, 2e5).total_j_per_mol();
+        let step = (h(tc + 1e-7) - h(tc - 1e-7)).abs();
+        let critical = PitzerCurlVirial::for_component(c)
+            .residual_enthalpy_j_per_mol(tc, c.critical_pressure_pa())
+            .abs();
+        println!("{name}: step across Tc {step:.3} J/mol; |H^R(Tc, Pc)| {critical:.0} J/mol");
+        assert!(step < 20.0 && critical > 1000.0, "{name}: {step}");
+    }
+}
+
+/// With the second-virial vapour the enthalpy table still adds up to the duty, each row's
+/// parts (now with the vapour departure) add up to its enthalpy, the latent part is still
+/// ΔHvap at Tb along path (a), and the departure column is zero under the ideal gas.
+#[test]
+fn enthalpy_table_adds_up_with_second_virial() {
+    let s = stream(&["benzene", "toluene", "o-xylene"], &[0.3, 0.4, 0.3]);
+    let ideal = heater_duty(&s, tp(300.0, 3e5), tp(500.0, 3e5), DutyOptions::default()).unwrap();
+    assert!(ideal.table.iter().all(|row| row.vapour_departure_j_per_mol == 0.0));
+    for vapour_ref in [false, true] {
+        let o = options_with(
+            vapour_ref,
+            298.15,
+            VaporisationPath::BoilingPoint,
+            VapourModel::SecondVirial,
+        );
+        for outlet in [tp(420.0, 3e5), tp(500.0, 3e5)] {
+            let r = heater_duty(&s, tp(300.0, 3e5), outlet, o).unwrap();
+            assert_eq!(r.options, o);
+            let total: f64 = r.table.iter().map(|row| row.sign() * row.enthalpy_flow_w).sum();
+            assert!((total - r.duty_w).abs() < 1e-9 * r.duty_w.abs());
+            for row in &r.table {
+                let parts = row.liquid_sensible_j_per_mol
+                    + row.latent_j_per_mol
+                    + row.vapour_sensible_j_per_mol
+                    + row.vapour_departure_j_per_mol;
+                assert!((parts - row.enthalpy_j_per_mol).abs() < 1e-9 * row.enthalpy_j_per_mol.abs().max(1.0));
+                if row.phase == Phase::Vapour {
+                    assert!(row.vapour_departure_j_per_mol != 0.0);
+                    if !vapour_ref {
+                        let c = Library::builtin().get(&row.component).unwrap();
+                        let at_tb = c.latent_heat().latent_heat(c.normal_boiling_point_k());
+                        assert_eq!(row.latent_j_per_mol, at_tb);
+                    }
+                }
+            }
+        }
+    }
+}
+
+/// The real-gas correction changes the duty but not the phase split, and the
+/// duty-specified flash, the heating curve and the path spread all use it.
+#[test]
+fn second_virial_reaches_every_entry_point() {
+    let s = stream(&["n-pentane", "n-hexane"], &[0.5, 0.5]);
+    let p = 3e5;
+    let (a, b) = (tp(300.0, p), tp(420.0, p));
+    let ideal = heater_duty(&s, a, b, DutyOptions::default()).unwrap();
+    let real = heater_duty(&s, a, b, virial()).unwrap();
+    assert_eq!(ideal.outlet.vapour_fraction, real.outlet.vapour_fraction);
+    assert!(real.duty_w != ideal.duty_w);
+    let back = outlet_for_duty(
+        &s,
+        a,
+        Power::new("duty", real.duty_w).unwrap(),
+        Pressure::new("P", p).unwrap(),
+        virial(),
+    )
+    .unwrap();
+    assert!((back.outlet.temperature_k - 420.0).abs() < 1e-6);
+    let curve = heating_curve(&s, a, b, 5, virial()).unwrap();
+    assert!((curve.duty_w - real.duty_w).abs() < 1e-9 * real.duty_w);
+    let ps = real.path_spread;
+    assert_eq!(ps.boiling_point_w, real.duty_w);
+    let stream_t = heater_duty(
+        &s,
+        a,
+        b,
+        DutyOptions {
+            path: VaporisationPath::StreamTemperature,
+            ..virial()
+        },
+    )
+    .unwrap();
+    assert!((ps.stream_temperature_w - stream_t.duty_w).abs() < 1e-9 * stream_t.duty_w);
+}
+
+/// The range warning: steam at 11 MPa and 600 K (Pr 0.50 > Tr/2 = 0.46) gets
+/// `VirialOutOfRange` from the heater duty and the heating curve under the second virial,
+/// and nothing of the kind under the ideal gas or at 1 atm. Along path (b) a saturated vapour
+/// near Tc is flagged too (its correction is evaluated at Psat).
+#[test]
+fn virial_range_warning() {
+    let s = stream(&["water"], &[1.0]);
+    let p = 11e6;
+    let (a, b) = (tp(600.0, p), tp(650.0, p));
+    let is_virial = |w: &Warning| matches!(w, Warning::VirialOutOfRange { component, .. } if component == "water");
+    let r = heater_duty(&s, a, b, virial()).unwrap();
+    assert_eq!(r.inlet.phase, Phase::Vapour);
+    let w = r.warnings.iter().find(|w| is_virial(w)).expect("a virial warning");
+    assert!(
+        w.to_string().contains("second-virial") && w.to_string().contains("Tr/2"),
+        "{w}"
+    );
+    assert_eq!(r.warnings.iter().filter(|w| is_virial(w)).count(), 1);
+    let c = heating_curve(&s, a, b, 3, virial()).unwrap();
+    assert!(c.warnings.iter().any(is_virial), "{:?}", c.warnings);
+    let ideal = heater_duty(&s, a, b, DutyOptions::default()).unwrap();
+    assert!(!ideal.warnings.iter().any(is_virial));
+    let low = heater_duty(&s, tp(400.0, ATM), tp(500.0, ATM), virial()).unwrap();
+    assert!(!low.warnings.iter().any(is_virial));
+    // Path (b): vapour at 1 atm and 640 K is fine itself, but its correction subtracts the
+    // saturated vapour's at 640 K, close to Tc.
+    let o = DutyOptions {
+        path: VaporisationPath::StreamTemperature,
+        ..virial()
+    };
+    let r = heater_duty(&s, tp(500.0, ATM), tp(640.0, ATM), o).unwrap();
+    let w = r.warnings.iter().find(|w| is_virial(w)).expect("a virial warning");
+    assert!(
+        matches!(w, Warning::VirialOutOfRange { temperature_k, .. } if *temperature_k == 640.0),
+        "{w}"
+    );
 }

@@ -4,7 +4,7 @@
 //! their full results from it; [`DutyCalculator`](super::DutyCalculator) keeps one and its
 //! buffers for hot loops, so both give the same numbers by construction.
 
-use super::enthalpy::{PathTable, enthalpy_warnings};
+use super::enthalpy::{Departures, PathTable, enthalpy_warnings, virial_warnings};
 use super::{
     DutyOptions, DutyResult, DutySummary, EnergyError, EnthalpyRow, PathSpread, StateSummary, Stream, StreamState,
     VaporisationPath,
@@ -79,7 +79,7 @@ pub(crate) struct Calc<'a> {
     zn: Vec<f64>,
     /// Raoult's law over the stream's components (also the list every enthalpy reads).
     k_model: Raoult,
-    /// The enthalpy constants for the reference state and path of `options`.
+    /// The enthalpy constants for the reference state, path and vapour model of `options`.
     table: PathTable,
     options: DutyOptions,
 }
@@ -98,7 +98,7 @@ impl<'a> Calc<'a> {
         };
         let components = stream.components();
         Ok(Self {
-            table: PathTable::new(components, options.reference, options.path),
+            table: PathTable::new(components, options.reference, options.path, options.vapour_model),
             k_model: Raoult::new(components.to_vec()),
             zn,
             stream,
@@ -202,7 +202,29 @@ impl<'a> Calc<'a> {
 
     /// Per mole of stream: Σ over components and phases of amount × enthalpy.
     pub fn enthalpy(&self, s: &Solved) -> f64 {
-        self.enthalpy_with(&self.table, s)
+        let h = self.enthalpy_with(&self.table, s);
+        match self.table.virial(self.components()) {
+            Some(v) => h + self.departure(v, s),
+            None => h,
+        }
+    }
+
+    /// Per mole of stream: Σ over components and phases of amount × second-virial
+    /// departure, at the state's temperature and pressure.
+    #[inline(never)]
+    fn departure(&self, v: Departures<'_>, s: &Solved) -> f64 {
+        let (t, p) = (s.state.t, s.state.p);
+        let mut total = 0.0;
+        for i in 0..self.component_count() {
+            let (l, vap) = self.amounts(s, i);
+            if l > 0.0 {
+                total += l * v.liquid(i);
+            }
+            if vap > 0.0 {
+                total += vap * v.vapour(i, t, p).0;
+            }
+        }
+        total
     }
 
     fn enthalpy_with(&self, table: &PathTable, s: &Solved) -> f64 {
@@ -222,9 +244,57 @@ impl<'a> Calc<'a> {
     }
 
     /// The enthalpy of the stream all liquid (at its bubble point) or all vapour (at its
-    /// dew point) at `t_k`, J/mol.
-    pub fn saturated_enthalpy(&self, phase: Phase, t_k: f64) -> f64 {
-        self.table.phase_enthalpy(self.components(), phase, self.z(), t_k)
+    /// dew point) at `t_k` and `p_pa`, J/mol.
+    #[inline]
+    pub fn saturated_enthalpy(&self, phase: Phase, t_k: f64, p_pa: f64) -> f64 {
+        self.phase_enthalpy(phase, self.z(), t_k, p_pa)
+    }
+
+    /// The enthalpy of a phase of composition `fractions` at `t_k` and `p_pa`, J/mol.
+    #[inline]
+    fn phase_enthalpy(&self, phase: Phase, fractions: &[f64], t_k: f64, p_pa: f64) -> f64 {
+        let components = self.components();
+        let h = self.table.phase_enthalpy(components, phase, fractions, t_k);
+        match self.table.virial(components) {
+            Some(v) => h + v.phase_enthalpy(phase, fractions, t_k, p_pa),
+            None => h,
+        }
+    }
+
+    /// d/dT at constant pressure of [`Self::phase_enthalpy`], J/(mol·K).
+    #[inline]
+    fn phase_slope(&self, phase: Phase, fractions: &[f64], t_k: f64, p_pa: f64) -> f64 {
+        let components = self.components();
+        let slope = self.table.phase_slope(components, phase, fractions, t_k);
+        match self.table.virial(components) {
+            Some(v) => slope + v.phase_slope(phase, fractions, t_k, p_pa),
+            None => slope,
+        }
+    }
+
+    /// Adds the second-virial range warnings of the state (none under an ideal-gas
+    /// vapour); `warned` keeps one byte per component across calls.
+    pub fn vapour_model_warnings(&self, s: &Solved, warned: &mut [u8], out: &mut Vec<Warning>) {
+        let o = self.options;
+        for (i, c) in self.components().iter().enumerate() {
+            let (l, v) = self.amounts(s, i);
+            for (amount, phase) in [(l, Phase::Liquid), (v, Phase::Vapour)] {
+                if amount > 0.0 {
+                    let w = &mut warned[i];
+                    virial_warnings(
+                        c,
+                        o.reference,
+                        o.path,
+                        o.vapour_model,
+                        phase,
+                        s.state.t,
+                        s.state.p,
+                        w,
+                        out,
+                    );
+                }
+            }
+        }
     }
 
     /// Adds the K-value model's warnings at the state (those of its flash result).
@@ -240,6 +310,20 @@ impl<'a> Calc<'a> {
     /// H = Σ zᵢ hᴸᵢ + Σ vᵢ (hⱽᵢ − hᴸᵢ) with vᵢ = β Kᵢ zᵢ / dᵢ, dᵢ = 1 − β + β Kᵢ, so
     /// dvᵢ/dT = (zᵢ/dᵢ)(Kᵢ/dᵢ) (dβ/dT + β (1 − β) ∂ln Kᵢ/∂T).
     pub fn enthalpy_and_slope(&self, s: &Solved) -> (f64, f64) {
+        match self.table.virial(self.components()) {
+            None => self.ideal_enthalpy_and_slope(s),
+            Some(departures) => {
+                let (h, slope) = self.ideal_enthalpy_and_slope(s);
+                let (dh, dslope) = self.departure_and_slope(departures, s);
+                (h + dh, slope + dslope)
+            }
+        }
+    }
+
+    /// [`Self::enthalpy_and_slope`] without the second-virial departures: the ideal-gas
+    /// vapour's, or the rest of the second virial's.
+    #[inline]
+    fn ideal_enthalpy_and_slope(&self, s: &Solved) -> (f64, f64) {
         let (table, components) = (&self.table, self.components());
         let st = &s.state;
         let (t, beta, lf) = (st.t, st.beta, st.liquid_fraction);
@@ -279,6 +363,46 @@ impl<'a> Calc<'a> {
         (h, slope)
     }
 
+    /// The second-virial part of [`Self::enthalpy_and_slope`], apart (and out of line, so
+    /// that the ideal-gas loop is compiled as it was; dβ/dT is found again here, a small
+    /// cost beside the correlation's): the liquid's departure is a constant, the vapour's
+    /// changes with T at constant P, and a two-phase state moves dvᵢ/dT between them.
+    #[inline(never)]
+    fn departure_and_slope(&self, departures: Departures<'_>, s: &Solved) -> (f64, f64) {
+        let st = &s.state;
+        let (t, p, beta, lf) = (st.t, st.p, st.beta, st.liquid_fraction);
+        let two_phase = st.phase == Phase::TwoPhase;
+        let kv = &s.buffers.kv;
+        let dbeta_dt = if two_phase {
+            sensitivity(&self.zn, kv, beta, lf).map_or(0.0, |s| s.dvapour_fraction_dt_per_k)
+        } else {
+            0.0
+        };
+        let (mut dh, mut dslope) = (0.0, 0.0);
+        for (i, &zi) in self.z().iter().enumerate() {
+            if zi == 0.0 {
+                continue;
+            }
+            let (l, v) = self.amounts(s, i);
+            let liquid = departures.liquid(i);
+            let (vapour, vapour_slope) = departures.vapour(i, t, p);
+            if l > 0.0 {
+                dh += l * liquid;
+            }
+            if v > 0.0 {
+                dh += v * vapour;
+            }
+            dslope += v * vapour_slope;
+            if two_phase {
+                let k = kv.k[i];
+                let d = lf + beta * k;
+                let dv = (zi / d) * (k / d) * (dbeta_dt + beta * lf * kv.dln_k_dt[i]);
+                dslope += dv * (vapour - liquid);
+            }
+        }
+        (dh, dslope)
+    }
+
     /// The duty and states of a change from `inlet` to `outlet`; dQ/dT at the outlet where
     /// `outlet_tp` (the outlet was flashed at T and P).
     pub fn summary(&self, inlet: &Solved, outlet: &Solved, outlet_tp: bool) -> DutySummary {
@@ -312,16 +436,17 @@ impl<'a> Calc<'a> {
         warnings: &mut Vec<Warning>,
     ) {
         let flow = self.flow();
-        let t = s.state.t;
-        let (reference, path) = (self.options.reference, self.options.path);
+        let (t, p) = (s.state.t, s.state.p);
+        let o = self.options;
         for (i, c) in self.components().iter().enumerate() {
             let (l, v) = self.amounts(s, i);
             for (amount, phase) in [(l, Phase::Liquid), (v, Phase::Vapour)] {
                 if amount <= 0.0 {
                     continue;
                 }
-                let split = self.table.split(self.components(), i, phase, t);
-                enthalpy_warnings(c, reference, path, phase, t, &mut warned[i], warnings);
+                let split = self.table.split_at(self.components(), i, phase, t, p);
+                let w = &mut warned[i];
+                enthalpy_warnings(c, o.reference, o.path, o.vapour_model, phase, t, p, w, warnings);
                 let h = split.total_j_per_mol();
                 out.push(EnthalpyRow {
                     state,
@@ -332,6 +457,7 @@ impl<'a> Calc<'a> {
                     liquid_sensible_j_per_mol: split.liquid_sensible_j_per_mol,
                     latent_j_per_mol: split.latent_j_per_mol,
                     vapour_sensible_j_per_mol: split.vapour_sensible_j_per_mol,
+                    vapour_departure_j_per_mol: split.vapour_departure_j_per_mol,
                     enthalpy_flow_w: amount * flow * h,
                 });
             }
@@ -343,12 +469,13 @@ impl<'a> Calc<'a> {
     /// component's liquid sensible heat once per state for both.
     fn path_spread(&self, inlet: &Solved, outlet: &Solved, selected_duty_w: f64) -> PathSpread {
         let flow = self.flow();
-        let (reference, selected) = (self.options.reference, self.options.path);
+        let (reference, selected, vapour_model) =
+            (self.options.reference, self.options.path, self.options.vapour_model);
         let components = self.components();
         let others: Vec<(VaporisationPath, PathTable)> = VaporisationPath::ALL
             .into_iter()
             .filter(|p| *p != selected)
-            .map(|p| (p, PathTable::new(components, reference, p)))
+            .map(|p| (p, PathTable::new(components, reference, p, vapour_model)))
             .collect();
         // Σ over components and phases of amount × enthalpy along each other path: the sum
         // of `enthalpy_with`, in the same order.
@@ -372,6 +499,11 @@ impl<'a> Calc<'a> {
                     if v > 0.0 {
                         *total += v * pure.total_given(Phase::Vapour, t, &mut liquid_to_t);
                     }
+                }
+            }
+            for ((_, table), total) in others.iter().zip(&mut totals) {
+                if let Some(v) = table.virial(components) {
+                    *total += self.departure(v, s);
                 }
             }
             totals
@@ -480,15 +612,15 @@ impl<'a> Calc<'a> {
         duty_w: f64,
         out: &mut Solved,
     ) -> Result<(), EnergyError> {
-        let (z, components, table) = (self.z(), self.components(), &self.table);
-        let h_bub = self.saturated_enthalpy(Phase::Liquid, t_bub);
+        let (z, p_pa) = (self.z(), p.pascal());
+        let h_bub = self.saturated_enthalpy(Phase::Liquid, t_bub, p_pa);
         let out_of_reach = || EnergyError::DutyOutOfReach { duty_w };
         let single = |phase: Phase, lo_t: f64, hi_t: f64, out: &mut Solved| -> Result<(), EnergyError> {
-            let h = |t: f64| table.phase_enthalpy(components, phase, z, t) - target;
+            let h = |t: f64| self.phase_enthalpy(phase, z, t, p_pa) - target;
             let bracket = expand_bracket(h, lo_t, hi_t, SEARCH_MIN_TEMPERATURE_K, SEARCH_MAX_TEMPERATURE_K)
                 .ok_or_else(out_of_reach)?;
             let root = bracketed_newton(
-                |t| (h(t), table.phase_slope(components, phase, z, t)),
+                |t| (h(t), self.phase_slope(phase, z, t, p_pa)),
                 bracket.lo,
                 bracket.hi,
                 bracket.secant(),
@@ -509,7 +641,7 @@ impl<'a> Calc<'a> {
         let Some(t_dew) = dew else {
             return self.two_phase(target, p, t_bub, SEARCH_MAX_TEMPERATURE_K, out);
         };
-        let h_dew = self.saturated_enthalpy(Phase::Vapour, t_dew);
+        let h_dew = self.saturated_enthalpy(Phase::Vapour, t_dew, p_pa);
         if target >= h_dew {
             return single(Phase::Vapour, t_dew, t_dew + 10.0, out);
         }

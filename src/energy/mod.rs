@@ -1,9 +1,12 @@
 //! Energy: enthalpy against a chosen reference state, heater duty with its enthalpy
 //! table, the duty-specified flash, and heating and cooling curves.
 //!
-//! Enthalpies are those of an ideal liquid and an ideal-gas vapour: pressure does not
-//! enter them, and mixing is ideal (a phase's molar enthalpy is the mole-fraction-weighted
-//! sum of the pure-component enthalpies). The phase split comes from Raoult's law.
+//! Enthalpies are those of an ideal liquid and, by default, an ideal-gas vapour: pressure
+//! does not enter them, and mixing is ideal (a phase's molar enthalpy is the
+//! mole-fraction-weighted sum of the pure-component enthalpies). The phase split comes from
+//! Raoult's law. [`VapourModel::SecondVirial`], chosen in [`DutyOptions::vapour_model`],
+//! adds each component's real-gas residual enthalpy from the second virial coefficient,
+//! kept consistent with the library's (real) latent heats.
 //!
 //! Positive duty is heat into the stream (a heater or vaporiser); negative is heat out of
 //! it (a cooler or condenser).
@@ -35,7 +38,7 @@ mod duty_calculator;
 mod enthalpy;
 
 pub use duty_calculator::{DutyCalculator, DutySummary, StateSummary};
-pub use enthalpy::{EnthalpyModel, EnthalpySplit, ReferencePhase, ReferenceState, VaporisationPath};
+pub use enthalpy::{EnthalpyModel, EnthalpySplit, ReferencePhase, ReferenceState, VaporisationPath, VapourModel};
 
 use crate::equilibrium::{FlashError, FlashResult, FlashSpec};
 use crate::library::{Library, UnknownComponent};
@@ -269,12 +272,23 @@ impl StreamState {
 }
 
 /// Options for the energy calculations.
+///
+/// ```
+/// use flashduty::energy::{DutyOptions, VaporisationPath, VapourModel};
+/// let o = DutyOptions { vapour_model: VapourModel::SecondVirial, ..DutyOptions::default() };
+/// assert_eq!(o.path, VaporisationPath::BoilingPoint);
+/// let json = serde_json::to_value(o).unwrap();
+/// assert_eq!(json["vapour_model"], "second-virial");
+/// ```
 #[derive(Debug, Clone, Copy, PartialEq, Default, Serialize)]
 pub struct DutyOptions {
     /// The reference state (default: liquid at 298.15 K).
     pub reference: ReferenceState,
     /// The vaporisation path (default: via the normal boiling point).
     pub path: VaporisationPath,
+    /// How the vapour's enthalpy depends on pressure (default: the ideal gas, where it does
+    /// not).
+    pub vapour_model: VapourModel,
 }
 
 /// One line of the enthalpy table: one component in one phase of one state.
@@ -294,8 +308,11 @@ pub struct EnthalpyRow {
     pub liquid_sensible_j_per_mol: f64,
     /// Its latent part, J/mol.
     pub latent_j_per_mol: f64,
-    /// Its vapour sensible part, J/mol.
+    /// Its vapour sensible part (ideal gas), J/mol.
     pub vapour_sensible_j_per_mol: f64,
+    /// Its departure from the ideal gas, J/mol (see
+    /// [`EnthalpySplit::vapour_departure_j_per_mol`]); zero under [`VapourModel::IdealGas`].
+    pub vapour_departure_j_per_mol: f64,
     /// flow × enthalpy, W.
     pub enthalpy_flow_w: f64,
 }
@@ -345,7 +362,7 @@ pub struct DutyResult {
     pub dduty_dt_out_w_per_k: Option<f64>,
     /// The same duty along each vaporisation path.
     pub path_spread: PathSpread,
-    /// The reference state and path used.
+    /// The reference state, path and vapour model used.
     pub options: DutyOptions,
     /// Warnings from the flashes and the enthalpy correlations.
     pub warnings: Vec<Warning>,
@@ -507,6 +524,7 @@ pub fn heating_curve(
     let t_bub = calc.bubble_temperature(p, &mut work.buffers)?;
     let t_dew = calc.dew_temperature(p, &mut work.buffers)?;
     let mut warnings = Vec::new();
+    let mut warned = vec![0u8; calc.component_count()];
     let mut out = Vec::with_capacity(points + 2);
     for k in 0..points {
         let q = total * k as f64 / (points - 1) as f64;
@@ -517,6 +535,7 @@ pub fn heating_curve(
             &work
         };
         calc.flash_warnings(r, &mut warnings);
+        calc.vapour_model_warnings(r, &mut warned, &mut warnings);
         out.push(CurvePoint {
             temperature_k: r.state.t,
             duty_w: q,
@@ -536,7 +555,7 @@ pub fn heating_curve(
         breaks.push((t, Phase::Vapour, "dew", 1.0));
     }
     for (t, phase, name, beta) in breaks {
-        let q = flow * (calc.saturated_enthalpy(phase, t) - h_in);
+        let q = flow * (calc.saturated_enthalpy(phase, t, p.pascal()) - h_in);
         if inside(q) {
             out.push(CurvePoint {
                 temperature_k: t,

@@ -6,7 +6,7 @@
 //! `inlet.T`, and indexed for lists, `z[2]`) and the value.
 
 use crate::error::{CliError, CliResult, bail};
-use flashduty::energy::{ReferencePhase, ReferenceState, VaporisationPath};
+use flashduty::energy::{ReferencePhase, ReferenceState, VaporisationPath, VapourModel};
 use flashduty::units::{MassFlow, MolarFlow, Power, Pressure, Temperature, UnitError};
 use serde_json::{Map, Value};
 use std::io::Read;
@@ -80,6 +80,7 @@ impl Command {
                 "duty",
                 "reference",
                 "path",
+                "vapour_model",
             ],
             Command::Curve => &[
                 "note",
@@ -92,6 +93,7 @@ impl Command {
                 "duty",
                 "reference",
                 "path",
+                "vapour_model",
                 "points",
             ],
         }
@@ -114,6 +116,7 @@ pub const TOP_KEYS: &[&str] = &[
     "duty",
     "reference",
     "path",
+    "vapour_model",
     "points",
 ];
 
@@ -157,6 +160,9 @@ const ALIASES: &[(&str, &str)] = &[
     ("in", "inlet"),
     ("out", "outlet"),
     ("npoints", "points"),
+    ("vapor_model", "vapour_model"),
+    ("vapour", "vapour_model"),
+    ("vapor", "vapour_model"),
 ];
 
 /// A total flow: molar, or mass (converted with the stream's molar mass later).
@@ -220,6 +226,8 @@ pub struct Case {
     pub reference: Option<ReferenceState>,
     /// Vaporisation path.
     pub path: Option<VaporisationPath>,
+    /// Vapour model.
+    pub vapour_model: Option<VapourModel>,
     /// Curve points.
     pub points: Option<usize>,
 }
@@ -388,7 +396,7 @@ fn not_used(command: Command, key: &str) -> CliError {
         }
         (Command::Bubble | Command::Dew, "K") => " (use the flash command with z and K)".to_string(),
         (_, "points") => " (only the curve command takes points)".to_string(),
-        (_, "inlet" | "outlet" | "duty" | "reference" | "path") => {
+        (_, "inlet" | "outlet" | "duty" | "reference" | "path" | "vapour_model") => {
             " (only the duty and curve commands take it)".to_string()
         }
         _ => String::new(),
@@ -654,6 +662,17 @@ fn path(v: &Value) -> CliResult<VaporisationPath> {
         })
 }
 
+fn vapour_model(v: &Value) -> CliResult<VapourModel> {
+    let text = v.as_str().map(|s| s.trim().to_ascii_lowercase());
+    VapourModel::ALL
+        .into_iter()
+        .find(|m| text.as_deref() == Some(m.name()))
+        .ok_or_else(|| {
+            let names: Vec<&str> = VapourModel::ALL.iter().map(|m| m.name()).collect();
+            CliError::new(format!("vapour_model: {} is not one of {}", show(v), names.join(", ")))
+        })
+}
+
 /// The number of curve points: a whole number from 2 to [`MAX_POINTS`].
 pub fn points(field: &str, v: &Value) -> CliResult<usize> {
     let x = number(field, v)?;
@@ -695,6 +714,7 @@ pub fn parse_case(value: &Value, command: Command) -> CliResult<Case> {
             "duty" => case.duty = Some(power("duty", v)?),
             "reference" => case.reference = Some(reference(v)?),
             "path" => case.path = Some(path(v)?),
+            "vapour_model" => case.vapour_model = Some(vapour_model(v)?),
             "points" => case.points = Some(points("points", v)?),
             _ => return Err(unknown_key("", key, TOP_KEYS)),
         }
@@ -775,6 +795,21 @@ mod tests {
             e.message().contains("flows[0]") && e.message().contains("furlong"),
             "{e}"
         );
+    }
+
+    #[test]
+    fn vapour_model_is_read_and_checked() {
+        let c = parse_case(&json!({"vapour_model": " Second-Virial "}), Command::Duty).unwrap();
+        assert_eq!(c.vapour_model, Some(VapourModel::SecondVirial));
+        let e = parse_case(&json!({"vapour_model": "virial"}), Command::Curve).unwrap_err();
+        assert!(
+            e.message()
+                .starts_with("vapour_model: 'virial' is not one of ideal-gas, second-virial"),
+            "{e}"
+        );
+        let e = parse_case(&json!({"vapour_model": "ideal-gas"}), Command::Flash).unwrap_err();
+        assert!(e.message().contains("only the duty and curve commands"), "{e}");
+        assert_eq!(suggest_key("vapor_model", TOP_KEYS).as_deref(), Some("vapour_model"));
     }
 
     #[test]

@@ -5,7 +5,8 @@
 use crate::case::{Case, Command, ComponentFlow, StateInput, TotalFlow};
 use crate::error::{CliError, CliResult, bail};
 use flashduty::energy::{
-    Curve, DutyOptions, DutyResult, EnthalpyRow, Stream, StreamState, heater_duty, heating_curve, outlet_for_duty,
+    Curve, DutyOptions, DutyResult, EnthalpyRow, Stream, StreamState, VapourModel, heater_duty, heating_curve,
+    outlet_for_duty,
 };
 use flashduty::equilibrium::{FlashResult, FlashSpec, Raoult, Sensitivity, flash};
 use flashduty::library::Library;
@@ -119,6 +120,8 @@ pub struct CurveOutcome {
     pub inlet: State,
     /// The outlet state.
     pub outlet: State,
+    /// The vapour model the curve used.
+    pub vapour_model: VapourModel,
 }
 
 /// The result of any case command.
@@ -380,6 +383,7 @@ fn options(case: &Case) -> DutyOptions {
     DutyOptions {
         reference: case.reference.unwrap_or_default(),
         path: case.path.unwrap_or_default(),
+        vapour_model: case.vapour_model.unwrap_or_default(),
     }
 }
 
@@ -463,6 +467,7 @@ fn curve_case(lib: &Library, case: &Case, points: Option<usize>) -> CliResult<Cu
     Ok(CurveOutcome {
         inlet: State::from(&ends.inlet),
         outlet: State::from(&ends.outlet),
+        vapour_model: options(case).vapour_model,
         feed,
         curve,
     })
@@ -536,11 +541,12 @@ fn row_json(r: &EnthalpyRow) -> Value {
         "liquid_sensible_J_per_mol": r.liquid_sensible_j_per_mol,
         "latent_J_per_mol": r.latent_j_per_mol,
         "vapour_sensible_J_per_mol": r.vapour_sensible_j_per_mol,
+        "vapour_departure_J_per_mol": r.vapour_departure_j_per_mol,
         "enthalpy_flow_W": r.enthalpy_flow_w,
     })
 }
 
-fn options_json(o: &DutyOptions) -> (Value, Value) {
+fn options_json(o: &DutyOptions) -> (Value, Value, Value) {
     let phase = match o.reference.phase {
         flashduty::energy::ReferencePhase::Liquid => "liquid",
         flashduty::energy::ReferencePhase::Vapour => "vapour",
@@ -548,6 +554,7 @@ fn options_json(o: &DutyOptions) -> (Value, Value) {
     (
         json!({"phase": phase, "T_K": o.reference.temperature_k}),
         json!(o.path.name()),
+        json!(o.vapour_model.name()),
     )
 }
 
@@ -581,7 +588,7 @@ impl Outcome {
             Outcome::Duty(d) => {
                 let r = &d.result;
                 let names = d.feed.names.as_deref();
-                let (reference, path) = options_json(&r.options);
+                let (reference, path, vapour_model) = options_json(&r.options);
                 json!({
                     "duty_W": r.duty_w,
                     "duty_given": d.duty_given,
@@ -603,6 +610,7 @@ impl Outcome {
                     "dduty_dT_out_W_per_K": r.dduty_dt_out_w_per_k,
                     "reference": reference,
                     "path": path,
+                    "vapour_model": vapour_model,
                     "warnings": warnings_json(&r.warnings),
                 })
             }
@@ -631,6 +639,7 @@ impl Outcome {
                     "z": c.feed.z,
                     "inlet": state_json(names, &c.inlet),
                     "outlet": state_json(names, &c.outlet),
+                    "vapour_model": c.vapour_model.name(),
                     "warnings": warnings_json(&c.curve.warnings),
                 })
             }

@@ -47,6 +47,8 @@ A case file is JSON (TOML when the name ends in .toml) with these keys:
   duty             heat into the stream: a number in W or text such as \"250 kW\"
   reference        {\"phase\": \"liquid\" | \"vapour\", \"T\": ...}   (default liquid at 298.15 K)
   path             \"boiling-point\" (default), \"stream-temperature\" or \"reference-temperature\"
+  vapour_model     \"ideal-gas\" (default) or \"second-virial\" (real-gas vapour enthalpy from the
+                   Pitzer–Curl second virial coefficient; warns where it is stretched)
   points           curve points (curve only; --points overrides)
   note             free text
 Unknown keys, and keys a command does not use, are errors.

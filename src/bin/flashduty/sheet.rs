@@ -259,7 +259,7 @@ pub fn read(name: &str, bytes: &[u8]) -> CliResult<Sheet> {
 }
 
 /// Keys whose cells are always text.
-const TEXT_KEYS: &[&str] = &["note", "components", "path", "phase"];
+const TEXT_KEYS: &[&str] = &["note", "components", "path", "phase", "vapour_model"];
 
 /// One cell item as a JSON value: a number where it is one (with the column's unit
 /// appended when there is one), text otherwise.

@@ -2,6 +2,7 @@
 
 use crate::case::Command;
 use crate::compute::{CAUTION, CurveOutcome, DutyOutcome, FlashOutcome, Outcome, State};
+use flashduty::energy::VapourModel;
 use flashduty::rachford_rice::Phase;
 use flashduty::warnings::Warning;
 use std::fmt::Write;
@@ -146,6 +147,14 @@ pub fn caution(out: &mut String) {
     let _ = writeln!(out, "{CAUTION}");
 }
 
+/// How a report names the vapour model.
+pub fn vapour_model_words(m: VapourModel) -> &'static str {
+    match m {
+        VapourModel::IdealGas => "ideal gas",
+        VapourModel::SecondVirial => "second virial (Pitzer–Curl B; real-gas residual enthalpy)",
+    }
+}
+
 fn phase_word(p: Phase) -> &'static str {
     match p {
         Phase::Liquid => "liquid",
@@ -278,9 +287,10 @@ pub fn duty_body(out: &mut String, d: &DutyOutcome) {
     };
     let _ = writeln!(
         out,
-        "  reference state: pure {phase} at {}; vaporisation path: {}",
+        "  reference state: pure {phase} at {}; vaporisation path: {}; vapour: {}",
         temp(r.options.reference.temperature_k),
-        r.options.path.name()
+        r.options.path.name(),
+        vapour_model_words(r.options.vapour_model)
     );
     let _ = writeln!(out);
     let mut t = Table::new(&[
@@ -313,7 +323,9 @@ pub fn duty_body(out: &mut String, d: &DutyOutcome) {
         out,
         "\n  Enthalpy table (J/mol relative to the reference state; W = mol/s × J/mol):"
     );
-    let mut t = Table::new(&[
+    // The departure column appears only where the vapour model has one.
+    let departure = r.options.vapour_model != VapourModel::IdealGas;
+    let mut columns = vec![
         ("state", Align::Left),
         ("component", Align::Left),
         ("phase", Align::Left),
@@ -321,13 +333,16 @@ pub fn duty_body(out: &mut String, d: &DutyOutcome) {
         ("liq. sensible", Align::Right),
         ("latent", Align::Right),
         ("vap. sensible", Align::Right),
-        ("h [J/mol]", Align::Right),
-        ("H flow [W]", Align::Right),
-    ]);
+    ];
+    if departure {
+        columns.push(("vap. departure", Align::Right));
+    }
+    columns.extend([("h [J/mol]", Align::Right), ("H flow [W]", Align::Right)]);
+    let mut t = Table::new(&columns);
     let mut sums = [0.0f64; 2];
     for row in &r.table {
         sums[usize::from(row.state == "outlet")] += row.enthalpy_flow_w;
-        t.row(vec![
+        let mut cells = vec![
             row.state.into(),
             row.component.clone(),
             phase_word(row.phase).into(),
@@ -335,9 +350,12 @@ pub fn duty_body(out: &mut String, d: &DutyOutcome) {
             fixed(row.liquid_sensible_j_per_mol, 1),
             fixed(row.latent_j_per_mol, 1),
             fixed(row.vapour_sensible_j_per_mol, 1),
-            fixed(row.enthalpy_j_per_mol, 1),
-            fixed(row.enthalpy_flow_w, 1),
-        ]);
+        ];
+        if departure {
+            cells.push(fixed(row.vapour_departure_j_per_mol, 1));
+        }
+        cells.extend([fixed(row.enthalpy_j_per_mol, 1), fixed(row.enthalpy_flow_w, 1)]);
+        t.row(cells);
     }
     out.push_str(&t.render(4));
     let _ = writeln!(
@@ -389,6 +407,7 @@ fn curve_text(out: &mut String, c: &CurveOutcome) {
         }
     }
     let _ = writeln!(out, "  total duty   {}", power(cv.duty_w));
+    let _ = writeln!(out, "  vapour       {}", vapour_model_words(c.vapour_model));
     if c.inlet
         .p_pa
         .is_some_and(|p| (p - cv.pressure_pa).abs() > 1e-9 * cv.pressure_pa)
