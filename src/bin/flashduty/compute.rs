@@ -19,7 +19,7 @@ use std::sync::Arc;
 
 /// The caution every human-readable report and the help end with.
 pub const CAUTION: &str = "Caution: these results are estimates from ideal-mixture models (Raoult's law, \
-ideal liquid, ideal-gas vapour). Check that the models suit your mixture and conditions; equipment design and \
+ideal liquid, ideal-gas vapour, at most a second-virial correction to the vapour's enthalpy). Check that the models suit your mixture and conditions; equipment design and \
 operation follow the applicable local codes and the judgement of a qualified, licensed engineer.";
 
 /// Default number of curve points.

@@ -28,10 +28,10 @@ const ABOUT: &str = "Rachford–Rice flash, bubble and dew points, heater duty a
 const LONG_ABOUT: &str = "Rachford–Rice flash, bubble and dew points, heater duty and heating curves of ideal \
 (Raoult's-law) mixtures, with every constant traced to a published source.
 
-Caution: results are estimates from ideal-mixture models (Raoult's law, ideal liquid, ideal-gas vapour). \
-Check that the models suit your mixture and conditions (no azeotropes or strongly non-ideal liquids, \
-pressures below a few bar). Equipment design and operation follow the applicable local codes and the \
-judgement of a qualified, licensed engineer.";
+Caution: results are estimates from ideal-mixture models (Raoult's law, ideal liquid, ideal-gas vapour, \
+at most a second-virial correction to the vapour's enthalpy). Check that the models suit your mixture and \
+conditions (no azeotropes or strongly non-ideal liquids, pressures below a few bar). Equipment design and \
+operation follow the applicable local codes and the judgement of a qualified, licensed engineer.";
 
 const AFTER_HELP: &str = "\
 Usage pattern: flashduty <command> [--json] <case-file | ->   ('-' reads the case from standard input)
