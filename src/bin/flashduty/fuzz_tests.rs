@@ -219,10 +219,15 @@ fn case() -> BoxedStrategy<Value> {
             leaf()
         ]),
         prop::option::of(prop_oneof![(0u32..40).prop_map(|n| json!(n)), leaf()]),
+        prop::option::of(prop_oneof![
+            Just(json!("second-virial")),
+            Just(json!("ideal-gas")),
+            leaf()
+        ]),
     );
     (a, b)
         .prop_map(
-            |((components, z, flows, k, t, p, beta), (flow, inlet, outlet, duty, reference, path, points))| {
+            |((components, z, flows, k, t, p, beta), (flow, inlet, outlet, duty, reference, path, points, vapour))| {
                 let mut m = Map::new();
                 let mut put = |key: &str, v: Option<Value>| {
                     if let Some(v) = v {
@@ -243,6 +248,7 @@ fn case() -> BoxedStrategy<Value> {
                 put("reference", reference);
                 put("path", path);
                 put("points", points);
+                put("vapour_model", vapour);
                 Value::Object(m)
             },
         )
@@ -327,8 +333,9 @@ fn command_case() -> BoxedStrategy<Value> {
             Just(json!("reference-temperature"))
         ]),
         prop::option::of(prop_oneof![Just(json!("36 kmol/h")), Just(json!("1200 kg/h")), leaf()]),
+        prop::option::of(Just(json!("second-virial"))),
     )
-        .prop_map(|(f, inlet, outlet, duty, p_out, points, path, flow)| {
+        .prop_map(|(f, inlet, outlet, duty, p_out, points, path, flow, vapour)| {
             let mut extra = json!({"inlet": inlet, "outlet": outlet});
             if let Some(q) = duty {
                 extra["duty"] = q;
@@ -339,6 +346,9 @@ fn command_case() -> BoxedStrategy<Value> {
             }
             if let Some(p) = path {
                 extra["path"] = p;
+            }
+            if let Some(v) = vapour {
+                extra["vapour_model"] = v;
             }
             if let Some(fl) = flow
                 && f.get("z").is_some()
