@@ -281,17 +281,7 @@ impl<'a> Calc<'a> {
             for (amount, phase) in [(l, Phase::Liquid), (v, Phase::Vapour)] {
                 if amount > 0.0 {
                     let w = &mut warned[i];
-                    virial_warnings(
-                        c,
-                        o.reference,
-                        o.path,
-                        o.vapour_model,
-                        phase,
-                        s.state.t,
-                        s.state.p,
-                        w,
-                        out,
-                    );
+                    virial_warnings(c, o, phase, s.state.t, s.state.p, w, out);
                 }
             }
         }
@@ -446,7 +436,7 @@ impl<'a> Calc<'a> {
                 }
                 let split = self.table.split_at(self.components(), i, phase, t, p);
                 let w = &mut warned[i];
-                enthalpy_warnings(c, o.reference, o.path, o.vapour_model, phase, t, p, w, warnings);
+                enthalpy_warnings(c, o, phase, t, p, w, warnings);
                 let h = split.total_j_per_mol();
                 out.push(EnthalpyRow {
                     state,

@@ -2,8 +2,10 @@
 //! vaporisation path, with an ideal-gas vapour or one corrected by the second virial
 //! coefficient.
 
+use super::DutyOptions;
 use crate::properties::{Component, HeatCapacity, LatentHeat, PitzerCurlVirial, ValidityRange, VapourPressure};
 use crate::rachford_rice::Phase;
+use crate::units::ATM_PA;
 use crate::warnings::{Warning, push_unique};
 use serde::{Deserialize, Serialize};
 use std::sync::Arc;
@@ -441,19 +443,17 @@ const VIRIAL_WARNED: u8 = 8;
 /// `warned` holds a bit for each correlation already reported for this component in `out`
 /// (the caller keeps one per component, zero to start), so that repeated rows do not search
 /// `out` again.
-#[allow(clippy::too_many_arguments)]
 pub(crate) fn enthalpy_warnings(
     c: &Component,
-    reference: ReferenceState,
-    path: VaporisationPath,
-    vapour_model: VapourModel,
+    options: DutyOptions,
     phase: Phase,
     t_k: f64,
     p_pa: f64,
     warned: &mut u8,
     out: &mut Vec<Warning>,
 ) {
-    virial_warnings(c, reference, path, vapour_model, phase, t_k, p_pa, warned, out);
+    virial_warnings(c, options, phase, t_k, p_pa, warned, out);
+    let (reference, path) = (options.reference, options.path);
     let t_ref = reference.temperature_k;
     let mut check = |bit: u8, name: &'static str, range: ValidityRange, t: f64| {
         if range.contains(t) || *warned & bit != 0 {
@@ -497,21 +497,19 @@ pub(crate) fn enthalpy_warnings(
 /// Pr ≤ Tr/2: at the state itself (a vapour), where its path vaporises it (a vapour), or
 /// where the path to a vapour reference does (any phase). `warned` as in
 /// [`enthalpy_warnings`].
-#[allow(clippy::too_many_arguments)]
 pub(crate) fn virial_warnings(
     c: &Component,
-    reference: ReferenceState,
-    path: VaporisationPath,
-    vapour_model: VapourModel,
+    options: DutyOptions,
     phase: Phase,
     t_k: f64,
     p_pa: f64,
     warned: &mut u8,
     out: &mut Vec<Warning>,
 ) {
-    if vapour_model != VapourModel::SecondVirial || *warned & VIRIAL_WARNED != 0 {
+    if options.vapour_model != VapourModel::SecondVirial || *warned & VIRIAL_WARNED != 0 {
         return;
     }
+    let (reference, path) = (options.reference, options.path);
     let b = PitzerCurlVirial::for_component(c);
     let mut points = [None; 3];
     if phase == Phase::Vapour {
@@ -539,17 +537,13 @@ pub(crate) fn virial_warnings(
     );
 }
 
-/// The standard atmosphere, Pa (exact by definition; the pressure of the normal boiling
-/// point).
-const STANDARD_ATMOSPHERE_PA: f64 = 101_325.0;
-
 /// Where a component's path vaporises it at `t_v`: (`t_v`, the saturation pressure there),
 /// the normal boiling point at 101 325 Pa on path (a), else Psat(`t_v`) from the
 /// component's vapour pressure; capped at Pc (at and above Tc there is no saturated
 /// vapour, and the latent heat is zero).
 fn saturation_point(c: &Component, t_v: f64, path: VaporisationPath) -> (f64, f64) {
     match path {
-        VaporisationPath::BoilingPoint => (t_v, STANDARD_ATMOSPHERE_PA.min(c.critical_pressure_pa())),
+        VaporisationPath::BoilingPoint => (t_v, ATM_PA.min(c.critical_pressure_pa())),
         _ => (t_v, saturation_pressure_with_slope(c, t_v).0),
     }
 }
