@@ -253,23 +253,15 @@ impl<'a> Calc<'a> {
     /// The enthalpy of a phase of composition `fractions` at `t_k` and `p_pa`, J/mol.
     #[inline]
     fn phase_enthalpy(&self, phase: Phase, fractions: &[f64], t_k: f64, p_pa: f64) -> f64 {
-        let components = self.components();
-        let h = self.table.phase_enthalpy(components, phase, fractions, t_k);
-        match self.table.virial(components) {
-            Some(v) => h + v.phase_enthalpy(phase, fractions, t_k, p_pa),
-            None => h,
-        }
+        self.table
+            .phase_enthalpy_at(self.components(), phase, fractions, t_k, p_pa)
     }
 
     /// d/dT at constant pressure of [`Self::phase_enthalpy`], J/(mol·K).
     #[inline]
     fn phase_slope(&self, phase: Phase, fractions: &[f64], t_k: f64, p_pa: f64) -> f64 {
-        let components = self.components();
-        let slope = self.table.phase_slope(components, phase, fractions, t_k);
-        match self.table.virial(components) {
-            Some(v) => slope + v.phase_slope(phase, fractions, t_k, p_pa),
-            None => slope,
-        }
+        self.table
+            .phase_slope_at(self.components(), phase, fractions, t_k, p_pa)
     }
 
     /// Adds the second-virial range warnings of the state (none under an ideal-gas

@@ -399,11 +399,7 @@ impl EnthalpyModel {
     /// assert!((h.pure_slope_at(0, Phase::Vapour, t, p) / fd - 1.0).abs() < 1e-6);
     /// ```
     pub fn pure_slope_at(&self, index: usize, phase: Phase, t_k: f64, p_pa: f64) -> f64 {
-        let ideal = self.table.slope(&self.components, index, phase, t_k);
-        match self.table.virial(&self.components) {
-            Some(v) if phase == Phase::Vapour => ideal + v.vapour(index, t_k, p_pa).1,
-            _ => ideal,
-        }
+        self.table.slope_at(&self.components, index, phase, t_k, p_pa)
     }
 
     /// The molar enthalpy of a phase of composition `fractions` at `t_k`, J/mol; a vapour
@@ -427,11 +423,8 @@ impl EnthalpyModel {
     /// assert!((mix - pure).abs() < 1e-9 * pure.abs());
     /// ```
     pub fn phase_enthalpy_at(&self, phase: Phase, fractions: &[f64], t_k: f64, p_pa: f64) -> f64 {
-        let ideal = self.table.phase_enthalpy(&self.components, phase, fractions, t_k);
-        match self.table.virial(&self.components) {
-            Some(v) => ideal + v.phase_enthalpy(phase, fractions, t_k, p_pa),
-            None => ideal,
-        }
+        self.table
+            .phase_enthalpy_at(&self.components, phase, fractions, t_k, p_pa)
     }
 }
 
@@ -936,5 +929,46 @@ impl PathTable {
         (0..fractions.len())
             .map(|i| fractions[i] * self.slope(components, i, phase, t_k))
             .sum()
+    }
+
+    /// [`slope`](Self::slope) at constant pressure `p_pa`, with the vapour departure's slope.
+    pub fn slope_at(&self, components: &[Arc<Component>], index: usize, phase: Phase, t_k: f64, p_pa: f64) -> f64 {
+        let ideal = self.slope(components, index, phase, t_k);
+        match self.virial(components) {
+            Some(v) if phase == Phase::Vapour => ideal + v.vapour(index, t_k, p_pa).1,
+            _ => ideal,
+        }
+    }
+
+    /// [`phase_enthalpy`](Self::phase_enthalpy) at pressure `p_pa`, with the departures.
+    pub fn phase_enthalpy_at(
+        &self,
+        components: &[Arc<Component>],
+        phase: Phase,
+        fractions: &[f64],
+        t_k: f64,
+        p_pa: f64,
+    ) -> f64 {
+        let ideal = self.phase_enthalpy(components, phase, fractions, t_k);
+        match self.virial(components) {
+            Some(v) => ideal + v.phase_enthalpy(phase, fractions, t_k, p_pa),
+            None => ideal,
+        }
+    }
+
+    /// [`phase_slope`](Self::phase_slope) at constant pressure `p_pa`, with the departures'.
+    pub fn phase_slope_at(
+        &self,
+        components: &[Arc<Component>],
+        phase: Phase,
+        fractions: &[f64],
+        t_k: f64,
+        p_pa: f64,
+    ) -> f64 {
+        let ideal = self.phase_slope(components, phase, fractions, t_k);
+        match self.virial(components) {
+            Some(v) => ideal + v.phase_slope(phase, fractions, t_k, p_pa),
+            None => ideal,
+        }
     }
 }
