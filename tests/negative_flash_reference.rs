@@ -62,18 +62,15 @@
 //! not checked (a component next to its own pole is known only to the bound above).
 //! Every failed check is collected and the run reports them all at the end.
 
-use dashu_float::FBig;
-use dashu_float::round::mode::HalfEven;
 use flashduty::rachford_rice::{Options, Phase, solve_into};
 
+#[path = "common/big.rs"]
+mod big;
 #[path = "common/rng.rs"]
 mod rng;
+use big::{Big, big, err, normalise, to_f64};
 use rng::Rng;
 
-type Big = FBig<HalfEven>;
-
-/// Binary digits of the reference arithmetic.
-const PREC: usize = 200;
 /// Cases in the run: every kind on both sides in turn.
 const CASES: u64 = 3_600;
 /// The reference root is accepted once F changes sign across u*(1 ± TAU) (or the same width
@@ -95,14 +92,6 @@ const C_BALANCE: f64 = 6.0;
 /// run and 9.3 over 54,000 feeds of three other seeds (the two-phase reference test asserts
 /// the same 16).
 const C_RELATIVE: f64 = 16.0;
-
-fn big(v: f64) -> Big {
-    Big::try_from(v).expect("finite input").with_precision(PREC).value()
-}
-
-fn to_f64(v: &Big) -> f64 {
-    v.to_f64().value()
-}
 
 fn abs(v: Big) -> Big {
     if v < Big::ZERO { -v } else { v }
@@ -159,11 +148,6 @@ const KINDS: [Kind; 9] = [
     Kind::VeryNearOne,
     Kind::NearBoundary,
 ];
-
-fn normalise(w: &mut [f64]) {
-    let s: f64 = w.iter().sum();
-    w.iter_mut().for_each(|v| *v /= s);
-}
 
 /// The extreme K over the components with z > 0.
 fn live_extremes(z: &[f64], k: &[f64]) -> (f64, f64) {
@@ -681,10 +665,6 @@ impl Problem {
             rho,
         }
     }
-}
-
-fn err(ours: f64, reference: &Big) -> f64 {
-    to_f64(&abs(big(ours) - reference))
 }
 
 /// What one feed showed: the worst ratio of each check to its scale, and the failed checks.

@@ -24,35 +24,17 @@
 //! within 24ε relative, whatever the conditioning (a kind of case with every K within
 //! 1e-12..1e-4 of 1 exercises it).
 
-use dashu_float::FBig;
-use dashu_float::round::mode::HalfEven;
 use flashduty::rachford_rice::{Options, Phase, solve_into};
 
+#[path = "common/big.rs"]
+mod big;
 #[path = "common/rng.rs"]
 mod rng;
+use big::{Big, PREC, big, err, normalise, to_f64};
 use rng::Rng;
 
-type Big = FBig<HalfEven>;
-
-/// Binary digits of the reference arithmetic.
-const PREC: usize = 200;
 /// Cases in the run.
 const CASES: u64 = 10_000;
-
-fn big(v: f64) -> Big {
-    Big::try_from(v).expect("finite input").with_precision(PREC).value()
-}
-
-fn to_f64(v: &Big) -> f64 {
-    v.to_f64().value()
-}
-
-fn normalise(w: &mut [f64]) {
-    let s: f64 = w.iter().sum();
-    for v in w.iter_mut() {
-        *v /= s;
-    }
-}
 
 /// The kinds of case, cycled through.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -399,10 +381,6 @@ impl Problem {
             f1: (f1v, f1.1),
         }
     }
-}
-
-fn err(ours: f64, reference: &Big) -> f64 {
-    to_f64(&(big(ours) - reference)).abs()
 }
 
 #[derive(Default)]

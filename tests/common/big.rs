@@ -1,0 +1,33 @@
+//! The 200-bit arithmetic shared by the Rachford–Rice and negative-flash reference tests
+//! (`dashu_float`): inputs converted exactly, results rounded back once. Not every user calls
+//! every function.
+#![allow(dead_code)]
+
+use dashu_float::FBig;
+use dashu_float::round::mode::HalfEven;
+
+pub type Big = FBig<HalfEven>;
+
+/// Binary digits of the reference arithmetic.
+pub const PREC: usize = 200;
+
+/// `v` exactly, as a 200-bit float.
+pub fn big(v: f64) -> Big {
+    Big::try_from(v).expect("finite input").with_precision(PREC).value()
+}
+
+/// `v` rounded to the nearest f64.
+pub fn to_f64(v: &Big) -> f64 {
+    v.to_f64().value()
+}
+
+/// |ours − reference|, formed in 200 bits and rounded once.
+pub fn err(ours: f64, reference: &Big) -> f64 {
+    to_f64(&(big(ours) - reference)).abs()
+}
+
+/// Divides `w` by its f64 sum.
+pub fn normalise(w: &mut [f64]) {
+    let s: f64 = w.iter().sum();
+    w.iter_mut().for_each(|v| *v /= s);
+}
