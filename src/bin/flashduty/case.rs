@@ -652,24 +652,23 @@ fn reference(v: &Value) -> CliResult<ReferenceState> {
 }
 
 fn path(v: &Value) -> CliResult<VaporisationPath> {
-    let text = v.as_str().map(|s| s.trim().to_ascii_lowercase());
-    VaporisationPath::ALL
-        .into_iter()
-        .find(|p| text.as_deref() == Some(p.name()))
-        .ok_or_else(|| {
-            let names: Vec<&str> = VaporisationPath::ALL.iter().map(|p| p.name()).collect();
-            CliError::new(format!("path: {} is not one of {}", show(v), names.join(", ")))
-        })
+    one_of("path", v, &VaporisationPath::ALL, |p| p.name())
 }
 
 fn vapour_model(v: &Value) -> CliResult<VapourModel> {
+    one_of("vapour_model", v, &VapourModel::ALL, |m| m.name())
+}
+
+/// The option of `all` whose name is the text `v` (trimmed, any case), or an error naming
+/// `field`, the value and every name.
+fn one_of<T: Copy>(field: &str, v: &Value, all: &[T], name: impl Fn(T) -> &'static str) -> CliResult<T> {
     let text = v.as_str().map(|s| s.trim().to_ascii_lowercase());
-    VapourModel::ALL
-        .into_iter()
-        .find(|m| text.as_deref() == Some(m.name()))
+    all.iter()
+        .copied()
+        .find(|&o| text.as_deref() == Some(name(o)))
         .ok_or_else(|| {
-            let names: Vec<&str> = VapourModel::ALL.iter().map(|m| m.name()).collect();
-            CliError::new(format!("vapour_model: {} is not one of {}", show(v), names.join(", ")))
+            let names: Vec<&str> = all.iter().map(|&o| name(o)).collect();
+            CliError::new(format!("{field}: {} is not one of {}", show(v), names.join(", ")))
         })
 }
 
