@@ -91,6 +91,17 @@ def saturation_table():
     return write_csv("iapws_water_saturation.csv", header, cols, rows)
 
 
+def add_saturation_rows(points, P_MPa):
+    """Appends the saturated-liquid and saturated-vapour rows at P_MPa; returns Tsat."""
+    liq = IAPWS97(P=P_MPa, x=0.0)
+    vap = IAPWS97(P=P_MPa, x=1.0)
+    assert liq.T == vap.T
+    Tsat = liq.T
+    points.append((Tsat, "saturated-liquid", h_molar(liq)))
+    points.append((Tsat, "saturated-vapour", h_molar(vap)))
+    return Tsat
+
+
 def one_atm_table():
     P_MPa = P_ATM_PA / 1e6
     points = []  # (T, phase, h_J_per_mol)
@@ -106,12 +117,7 @@ def one_atm_table():
         points.append((T, phase, h_molar(st)))
     assert points[-1][0] == 573.15
 
-    liq = IAPWS97(P=P_MPa, x=0.0)
-    vap = IAPWS97(P=P_MPa, x=1.0)
-    assert liq.T == vap.T
-    Tsat = liq.T
-    points.append((Tsat, "saturated-liquid", h_molar(liq)))
-    points.append((Tsat, "saturated-vapour", h_molar(vap)))
+    Tsat = add_saturation_rows(points, P_MPa)
     order = {"liquid": 0, "saturated-liquid": 1, "saturated-vapour": 2, "vapour": 3}
     points.sort(key=lambda p: (p[0], order[p[1]]))
 
@@ -142,12 +148,7 @@ def one_mpa_table():
         points.append((T, "vapour", h_molar(st)))
     assert points[-1][0] == 683.15
 
-    liq = IAPWS97(P=P_MPa, x=0.0)
-    vap = IAPWS97(P=P_MPa, x=1.0)
-    assert liq.T == vap.T
-    Tsat = liq.T
-    points.append((Tsat, "saturated-liquid", h_molar(liq)))
-    points.append((Tsat, "saturated-vapour", h_molar(vap)))
+    Tsat = add_saturation_rows(points, P_MPa)
     order = {"saturated-liquid": 0, "saturated-vapour": 1, "vapour": 2}
     points.sort(key=lambda p: (p[0], order[p[1]]))
 
