@@ -775,46 +775,66 @@ impl<'a> Oriented<'a> {
             if g == 0.0 {
                 break;
             }
+            // (s, lo and hi are never NaN.)
             if g > 0.0 {
-                lo = lo.max(s);
-            } else {
-                hi = hi.min(s);
+                if s > lo {
+                    lo = s;
+                }
+            } else if s < hi {
+                hi = s;
             }
             let next = if iterations <= NEWTON_STEPS {
                 let (step, halley) = self.halley_step(s, g, dg, d2g);
                 let candidate = s - step;
-                // Converged when the step is below the resolution of s; when G is down to
-                // its own round-off (near β = 0 or 1 the absolute error of G, about
-                // ε Σ|terms|, can exceed ε·s·|G′|, and the step test alone would then never
-                // pass); or when the step is small and the rate of convergence so far says
-                // the error left after it is below the resolution of s. With e ≈ C·e_prev^p
-                // and steps standing for errors, the error after this step is about
-                // |step|·ρ^p with ρ = |step/last step|: p = 3 when this step and the last
-                // were Halley's, else (a Newton step among them) p = 2.
                 let at_round_off = g.abs() <= ROUND_OFF * f64::EPSILON * scale;
-                let rate = step.abs() / last_step.abs();
-                let rate_p = if halley && last_halley {
-                    rate * rate * rate
+                if step.abs() > RATE_STEP * s && !at_round_off {
+                    // A step this large is neither tiny nor passes the rate test (below).
+                    if candidate > lo && candidate < hi && candidate.is_finite() {
+                        (last_step, last_halley) = (step, halley);
+                        candidate
+                    } else {
+                        last_step = 0.0;
+                        float_midpoint(lo, hi)
+                    }
                 } else {
-                    rate * rate
-                };
-                let by_rate = step.abs() <= RATE_STEP * s && step.abs() * rate_p <= 0.25 * f64::EPSILON * s;
-                let tiny = step.abs() <= 2.0 * f64::EPSILON * s || by_rate;
-                // A tiny step is believed only if G agrees that s is near its root (|G/G′|
-                // small against s): close to a pole, H′ is a difference of large terms and
-                // its round-off can make a far-off point look converged.
-                let trusted = g.abs() <= 1e-3 * s * dg.abs();
-                if candidate.is_finite() && (at_round_off || (tiny && trusted)) {
-                    // Converged; the step may round onto the bracket end just moved to s.
-                    s = candidate.clamp(lo, hi);
-                    break;
-                }
-                if candidate > lo && candidate < hi && candidate.is_finite() && !tiny {
-                    (last_step, last_halley) = (step, halley);
-                    candidate
-                } else {
-                    last_step = 0.0;
-                    float_midpoint(lo, hi)
+                    // Converged when the step is below the resolution of s; when G is down to
+                    // its own round-off (near β = 0 or 1 the absolute error of G, about
+                    // ε Σ|terms|, can exceed ε·s·|G′|, and the step test alone would then never
+                    // pass); or when the step is small and the rate of convergence so far says
+                    // the error left after it is below the resolution of s. With e ≈ C·e_prev^p
+                    // and steps standing for errors, the error after this step is about
+                    // |step|·ρ^p with ρ = |step/last step|: p = 3 when this step and the last
+                    // were Halley's, else (a Newton step among them) p = 2.
+                    let rate = step.abs() / last_step.abs();
+                    let rate_p = if halley && last_halley {
+                        rate * rate * rate
+                    } else {
+                        rate * rate
+                    };
+                    let by_rate = step.abs() <= RATE_STEP * s && step.abs() * rate_p <= 0.25 * f64::EPSILON * s;
+                    let tiny = step.abs() <= 2.0 * f64::EPSILON * s || by_rate;
+                    // A tiny step is believed only if G agrees that s is near its root (|G/G′|
+                    // small against s): close to a pole, H′ is a difference of large terms and
+                    // its round-off can make a far-off point look converged.
+                    let trusted = g.abs() <= 1e-3 * s * dg.abs();
+                    if candidate.is_finite() && (at_round_off || (tiny && trusted)) {
+                        // Converged; the step may round onto the bracket end just moved to s.
+                        s = if candidate < lo {
+                            lo
+                        } else if candidate > hi {
+                            hi
+                        } else {
+                            candidate
+                        };
+                        break;
+                    }
+                    if candidate > lo && candidate < hi && candidate.is_finite() && !tiny {
+                        (last_step, last_halley) = (step, halley);
+                        candidate
+                    } else {
+                        last_step = 0.0;
+                        float_midpoint(lo, hi)
+                    }
                 }
             } else {
                 float_midpoint(lo, hi)
