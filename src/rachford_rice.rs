@@ -19,9 +19,11 @@
 //!   1 − β, x or y as β → 0, β → 1 or Kᵢ → 0, and both fractions are returned. What remains
 //!   is the conditioning of the equation itself (below).
 //! * **Set-up pass.** One pass over the components checks the input and gathers Σz, F(0),
-//!   F(1), F(½) with its first two derivatives, the extreme K-values and the window for
-//!   both orientations, so the phase test, the orientation and the first step cost no
-//!   further pass. Every pass takes the components two at a time in SIMD lanes
+//!   F(1), F(½) with its first two derivatives and the extreme K-values, so the phase test,
+//!   the orientation and the first step cost no further pass. The next pass forms the
+//!   window and, in the same loop, G at the first step's landing point, which is used only
+//!   if the step lands inside the window (else the first evaluation is a bisection, as it
+//!   would be without the shared pass). Every pass takes the components two at a time in SIMD lanes
 //!   (`wide::f64x2`: SSE2 on any x86-64, NEON on aarch64), which halves the dependency
 //!   chain of each sum and pairs the divisions. On x86-64 processors with AVX2 the solver
 //!   runs a copy of itself built for that target (runtime detection by `pulp`), which gives
@@ -392,9 +394,8 @@ fn solve_inline(
         });
     }
     let n = z.len();
-    // The set-up (two loops over the data, see `SetUp::gather`) checks the input and gathers
-    // everything the phase test, the orientation, the window, the poles and the first
-    // iteration need.
+    // The set-up pass (`SetUp::gather`) checks the input and gathers everything the phase
+    // test, the orientation, the poles and the first step need.
     let set_up = SetUp::gather(z, k);
     if !set_up.valid {
         // Find the first bad value, in the order `validated` checks them.
@@ -457,18 +458,6 @@ fn solve_inline(
     } else {
         Orientation::Vapour
     };
-    // The Leibovici–Neoschil window. The set-up pass computed it from the raw z, with a
-    // round-off margin that also covers normalising z when Σz is 1 to within 2nε; a feed
-    // further off (up to the 1e-6 tolerance) has it recomputed from the normalised z.
-    let [lo_liquid, hi_liquid, lo_vapour, hi_vapour] = if (set_up.sum - 1.0).abs() <= 2.0 * n as f64 * f64::EPSILON {
-        set_up.window
-    } else {
-        window(z, k, inv_sum)
-    };
-    let (ln_lo, ln_hi) = match orientation {
-        Orientation::Liquid => (lo_liquid, hi_liquid),
-        Orientation::Vapour => (lo_vapour, hi_vapour),
-    };
     // Both nearest poles are finite here: K_max > 1 and K_min < 1, since F(0) > 0 > F(1).
     let problem = Oriented::new(z, k, inv_sum, orientation, set_up.k_min, set_up.k_max);
     if set_up.half[0] == 0.0 {
@@ -476,18 +465,6 @@ fn solve_inline(
         problem.write(s, x, y);
         return Ok(problem.summary(s, 0, evaluations));
     }
-
-    // Bracket: (0, ½] intersected with the window.
-    let lo = ln_lo.max(0.0);
-    let hi = ln_hi.min(0.5);
-    if lo >= hi {
-        // (lo and hi are never NaN: max/min drop a NaN bound.)
-        // Round-off can cross the bounds only when the window has collapsed onto the root.
-        let s = (0.5 * (lo + hi)).clamp(f64::MIN_POSITIVE, 0.5);
-        problem.write(s, x, y);
-        return Ok(problem.summary(s, 0, evaluations));
-    }
-
     // Start at ½ with G, G′ and G″ from the set-up pass (G = F and G″ = F″ in the liquid
     // orientation, both negated in the vapour one; G′ = F′ in both). ½ may lie above the
     // window: the first step still starts there, and the bracket catches it if it lands
@@ -498,10 +475,13 @@ fn solve_inline(
     let [f_half, df_half, d2f_half] = set_up.half;
     let sign = if orientation == Orientation::Liquid { 1.0 } else { -1.0 };
     let start = [sign * f_half, df_half, sign * 2.0 * d2f_half, f64::NAN];
-    let bracket = (lo, hi);
+    // The window from the raw z carries a round-off margin that also covers normalising z
+    // when Σz is 1 to within 2nε; a feed further off (up to the 1e-6 tolerance) has it from
+    // the normalised z.
+    let raw = (set_up.sum - 1.0).abs() <= 2.0 * n as f64 * f64::EPSILON;
     Ok(match orientation {
-        Orientation::Liquid => problem.iterate::<true>(bracket, start, evaluations, x, y),
-        Orientation::Vapour => problem.iterate::<false>(bracket, start, evaluations, x, y),
+        Orientation::Liquid => problem.solve_from_half::<true>(start, raw, evaluations, x, y),
+        Orientation::Vapour => problem.solve_from_half::<false>(start, raw, evaluations, x, y),
     })
 }
 
@@ -588,8 +568,11 @@ fn window_margin(n: usize) -> f64 {
     (4.0 * n as f64 + 10.0) * f64::EPSILON
 }
 
-/// The Leibovici–Neoschil window from the normalised z (the rare path: Σz not 1 to within
-/// 2nε): [lower β, upper β, lower γ, upper γ].
+/// The Leibovici–Neoschil window from zᵢ·`inv_sum` (1 for the raw z, 1/Σz for the
+/// normalised z when Σz is not 1 to within 2nε): [lower β, upper β, lower γ, upper γ]. The
+/// common path forms it in the loop of the first evaluation instead
+/// ([`Oriented::window_and_derivatives_in`]).
+#[inline(always)]
 fn window(z: &[f64], k: &[f64], inv_sum: f64) -> [f64; 4] {
     let u = window_margin(z.len());
     let mut w = Window::new();
@@ -650,16 +633,15 @@ struct SetUp {
     /// The extreme K-values over zᵢ > 0.
     k_min: f64,
     k_max: f64,
-    /// [`bounds`] combined, from the raw z: [lower β, upper β, lower γ, upper γ].
-    window: [f64; 4],
 }
 
 impl SetUp {
-    /// Two loops over the components, two at a time, the first for the sums and extremes,
-    /// the second for the window: few running sums in each, so that they stay in registers.
+    /// One loop over the components, two at a time. The window is formed in the next loop,
+    /// with the first evaluation ([`Oriented::window_and_derivatives_in`]): its running
+    /// bounds added to the nine sums here made the loop spill to the stack (17 moves per
+    /// pair with three bounds, 8 with two on x86-64-v3).
     #[inline(always)]
     fn gather(z: &[f64], k: &[f64]) -> Self {
-        let u = window_margin(z.len());
         let (zero, one) = (f64x2::ZERO, f64x2::ONE);
         // The least zᵢ or Kᵢ (or 0): negative values. NaN or infinite values make Σz or F(0)
         // NaN or infinite (0·∞ is NaN).
@@ -667,7 +649,6 @@ impl SetUp {
         let (mut sum, mut f0, mut f1) = (zero, zero, zero);
         let mut half = [zero; 3];
         let (mut k_min, mut k_max) = (f64x2::splat(f64::INFINITY), zero);
-        let mut window = Window::new();
         in_pairs(z, k, |z, k| {
             least = least.fast_min(z.fast_min(k));
             let t = k - one;
@@ -688,10 +669,6 @@ impl SetUp {
             k_min = (k | z.simd_le(zero)).fast_min(k_min);
             k_max = k_max.fast_max(k & present);
         });
-        // The window in a loop of its own: its running bounds added to the nine sums above
-        // made the loop spill to the stack (17 moves per pair with three bounds, 8 with two
-        // on x86-64-v3); two loops over the same cached data cost fewer instructions.
-        in_pairs(z, k, |z, k| window.add(bounds(z, k, one / (k - one), u)));
         let [k_min, k_max] = [k_min.to_array(), k_max.to_array()];
         let least = least.to_array();
         let (sum, f0) = (sum.reduce_add(), f0.reduce_add());
@@ -703,7 +680,6 @@ impl SetUp {
             half: half.map(f64x2::reduce_add),
             k_min: k_min[0].min(k_min[1]),
             k_max: k_max[0].max(k_max[1]),
-            window: window.finish(),
         }
     }
 }
@@ -750,6 +726,40 @@ impl Orientation {
             ),
         }
     }
+}
+
+/// Where the iteration stands: s, [G, G′, G″, scale] there, the counts, and the last step
+/// (0 after a bisection) and whether it was Halley's, for the rate test.
+struct State {
+    s: f64,
+    derivatives: [f64; 4],
+    iterations: u32,
+    evaluations: u32,
+    last_step: f64,
+    last_halley: bool,
+}
+
+/// A pair's terms of G, −G′, G″/2 and Σ|terms| at s, added to `acc`.
+#[inline(always)]
+fn derivative_terms<const LIQUID: bool>(acc: &mut [f64x2; 4], z: f64x2, k: f64x2, s: f64x2) {
+    let (p, a) = if LIQUID {
+        (f64x2::ONE, k - f64x2::ONE)
+    } else {
+        (k, f64x2::ONE - k)
+    };
+    let r = a / (p + s * a);
+    let term = z * r;
+    acc[0] += term;
+    acc[1] -= term * r;
+    acc[2] += term * r * r;
+    acc[3] += term.abs();
+}
+
+/// [G, G′, G″, scale] from the sums of [`derivative_terms`].
+#[inline(always)]
+fn finish_derivatives(acc: [f64x2; 4]) -> [f64; 4] {
+    let [g, dg, d2g, scale] = acc.map(f64x2::reduce_add);
+    [g, dg, 2.0 * d2g, scale]
 }
 
 /// G(s) = Σ zᵢ aᵢ / (pᵢ + s aᵢ), decreasing in s, with (p, a) = (1, K − 1) in the liquid
@@ -812,25 +822,103 @@ impl<'a> Oriented<'a> {
         (2.0 * h * dh / den, halley)
     }
 
-    /// Halley's method on H from s = ½, where G, G′, G″ and the scale are `start`, inside
-    /// `bracket`; writes x and y at the root. The orientation is fixed at compile time, so
-    /// the loop carries no branch on it.
+    /// From s = ½, where G, G′, G″ and the scale are `start`: the window, the bracket and
+    /// the iteration; writes x and y at the root.
+    #[inline(always)]
+    fn solve_from_half<const LIQUID: bool>(
+        &self,
+        start: [f64; 4],
+        raw: bool,
+        evaluations: u32,
+        x: &mut [f64],
+        y: &mut [f64],
+    ) -> SplitSummary {
+        let [g, dg, d2g, _] = start;
+        let (step, halley) = self.halley_step(0.5, g, dg, d2g);
+        let first = 0.5 - step;
+        // A first step that the iteration would take without a test (see `iterate`) and
+        // that stays inside (0, ½): G there is evaluated in the window's pass, and used only
+        // if the step lands inside the window (else the iteration starts from ½ as usual and
+        // bisects the bracket).
+        let speculate = raw && step.abs() > RATE_STEP * 0.5 && first > 0.0 && first < 0.5;
+        let (window, at_first) = if speculate {
+            let (window, at_first) = self.window_and_derivatives_in::<LIQUID>(first);
+            (window, Some(at_first))
+        } else {
+            (window(self.z, self.k, if raw { 1.0 } else { self.inv_sum }), None)
+        };
+        let (ln_lo, ln_hi) = if LIQUID {
+            (window[0], window[1])
+        } else {
+            (window[2], window[3])
+        };
+        // Bracket: (0, ½] intersected with the window.
+        let lo = if ln_lo > 0.0 { ln_lo } else { 0.0 };
+        let hi = if ln_hi < 0.5 { ln_hi } else { 0.5 };
+        if lo >= hi {
+            // Round-off can cross the bounds only when the window has collapsed onto the root.
+            let s = (0.5 * (lo + hi)).clamp(f64::MIN_POSITIVE, 0.5);
+            self.write(s, x, y);
+            return self.summary(s, 0, evaluations);
+        }
+        let state = match at_first {
+            Some(derivatives) if first > lo && first < hi => State {
+                s: first,
+                derivatives,
+                iterations: 1,
+                evaluations: evaluations + 1,
+                last_step: step,
+                last_halley: halley,
+            },
+            _ => State {
+                s: 0.5,
+                derivatives: start,
+                iterations: 0,
+                evaluations,
+                last_step: 0.0,
+                last_halley: false,
+            },
+        };
+        self.iterate::<LIQUID>((lo, hi), state, x, y)
+    }
+
+    /// The window ([`bounds`] from the raw z) and [`derivatives_in`](Self::derivatives_in)
+    /// at s, in one pass.
+    #[inline(always)]
+    fn window_and_derivatives_in<const LIQUID: bool>(&self, s: f64) -> ([f64; 4], [f64; 4]) {
+        let u = window_margin(self.z.len());
+        let one = f64x2::ONE;
+        let mut window = Window::new();
+        let mut acc = [f64x2::ZERO; 4];
+        let s = f64x2::splat(s);
+        in_pairs(self.z, self.k, |z, k| {
+            window.add(bounds(z, k, one / (k - one), u));
+            derivative_terms::<LIQUID>(&mut acc, z, k, s);
+        });
+        (window.finish(), finish_derivatives(acc))
+    }
+
+    /// Halley's method on H from `state`, inside `bracket`; writes x and y at the root. The
+    /// orientation is fixed at compile time, so the loop carries no branch on it.
     #[inline(always)]
     fn iterate<const LIQUID: bool>(
         &self,
         bracket: (f64, f64),
-        start: [f64; 4],
-        mut evaluations: u32,
+        state: State,
         x: &mut [f64],
         y: &mut [f64],
     ) -> SplitSummary {
         let (mut lo, mut hi) = bracket;
-        let [mut g, mut dg, mut d2g, mut scale] = start;
-        let mut s = 0.5;
-        let mut iterations = 0;
-        // The last step taken (0 after a bisection) and whether it was Halley's, for the
-        // rate test.
-        let (mut last_step, mut last_halley) = (0.0_f64, false);
+        let State {
+            mut s,
+            derivatives: [mut g, mut dg, mut d2g, mut scale],
+            mut iterations,
+            mut evaluations,
+            // The last step taken (0 after a bisection) and whether it was Halley's, for the
+            // rate test.
+            mut last_step,
+            mut last_halley,
+        } = state;
         loop {
             if g == 0.0 {
                 break;
@@ -987,24 +1075,10 @@ impl<'a> Oriented<'a> {
     /// G, G′ and the scale) are the same with or without it, so it is not applied.
     #[inline(always)]
     fn derivatives_in<const LIQUID: bool>(&self, s: f64) -> [f64; 4] {
-        let zero = f64x2::ZERO;
-        let mut acc = [zero; 4];
+        let mut acc = [f64x2::ZERO; 4];
         let s = f64x2::splat(s);
-        in_pairs(self.z, self.k, |z, k| {
-            let (p, a) = if LIQUID {
-                (f64x2::ONE, k - f64x2::ONE)
-            } else {
-                (k, f64x2::ONE - k)
-            };
-            let r = a / (p + s * a);
-            let term = z * r;
-            acc[0] += term;
-            acc[1] -= term * r;
-            acc[2] += term * r * r;
-            acc[3] += term.abs();
-        });
-        let [g, dg, d2g, scale] = acc.map(f64x2::reduce_add);
-        [g, dg, 2.0 * d2g, scale]
+        in_pairs(self.z, self.k, |z, k| derivative_terms::<LIQUID>(&mut acc, z, k, s));
+        finish_derivatives(acc)
     }
 
     fn write(&self, s: f64, x: &mut [f64], y: &mut [f64]) {
