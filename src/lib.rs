@@ -22,6 +22,11 @@ mod solve;
 pub mod units;
 pub mod warnings;
 
+/// The seeded generator the integration tests and benchmarks share, for the unit tests.
+#[cfg(test)]
+#[path = "../tests/common/rng.rs"]
+mod test_rng;
+
 /// The README's code examples, compiled and run as doc tests.
 #[doc = include_str!("../README.md")]
 #[cfg(doctest)]

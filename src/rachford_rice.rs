@@ -1806,6 +1806,7 @@ fn solve_row(
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::test_rng::Rng;
 
     #[test]
     fn binary_closed_form() {
@@ -1827,15 +1828,8 @@ mod tests {
     /// the baseline build and the test passes trivially.
     #[test]
     fn dispatched_build_matches_baseline_to_the_bit() {
-        // splitmix64 (Steele, Lea & Flood, OOPSLA 2014; constants from memory).
-        let mut state = 0x5EED_u64;
-        let mut next = move || {
-            state = state.wrapping_add(0x9E37_79B9_7F4A_7C15);
-            let mut v = state;
-            v = (v ^ (v >> 30)).wrapping_mul(0xBF58_476D_1CE4_E5B9);
-            v = (v ^ (v >> 27)).wrapping_mul(0x94D0_49BB_1331_11EB);
-            ((v ^ (v >> 31)) >> 11) as f64 / (1u64 << 53) as f64
-        };
+        let mut rng = Rng(0x5EED);
+        let mut next = move || rng.uniform();
         for case in 0..20_000 {
             let n = 1 + (next() * 40.0) as usize;
             // K log-uniform over 10^±(1..12), some exactly 0 or 1, some z exactly 0.
