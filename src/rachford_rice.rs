@@ -23,11 +23,11 @@
 //!   the orientation and the first step cost no further pass. The next pass forms the
 //!   window and, in the same loop, G at the first step's landing point, which is used only
 //!   if the step lands inside the window (else the first evaluation is a bisection, as it
-//!   would be without the shared pass). Every pass takes the components two at a time in SIMD lanes
-//!   (`wide::f64x2`: SSE2 on any x86-64, NEON on aarch64), which halves the dependency
-//!   chain of each sum and pairs the divisions. On x86-64 processors with AVX2 the solver
-//!   runs a copy of itself built for that target (runtime detection by `pulp`), which gives
-//!   the same results to the bit with about a fifth fewer instructions.
+//!   would be without the shared pass). Every pass takes the components two at a time in
+//!   SIMD lanes (`wide::f64x2`: SSE2 on any x86-64, NEON on aarch64), which halves the
+//!   dependency chain of each sum and pairs the divisions. On x86-64 processors with AVX2
+//!   the solver runs a copy of itself built for that target (runtime detection by `pulp`),
+//!   which gives the same results to the bit with about a fifth fewer instructions.
 //! * **Window.** The root is bracketed by the Leibovici & Neoschil (1992) bounds
 //!   (from xᵢ ≤ 1 and yᵢ ≤ 1), intersected with (0, ½].
 //! * **Iteration.** Halley's method on H(s) = (s − s₋)(s₊ − s)·G(s), where G is the oriented
