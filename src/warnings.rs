@@ -87,6 +87,36 @@ pub enum Warning {
         /// P/Pc.
         reduced_pressure: f64,
     },
+    /// The duty-specified outlet is not the only state with the outlet's enthalpy at the
+    /// outlet pressure: the same duty is also met at the other temperatures listed.
+    ///
+    /// Along the stream-temperature vaporisation path a vapour's enthalpy is the liquid's
+    /// plus the latent heat at T, and the latent heat falls to zero at a component's
+    /// critical temperature with an unbounded slope (Watson), so the enthalpy of a vapour,
+    /// or of a two-phase mixture whose bubble and dew points straddle that Tc, dips just
+    /// below it. A duty that lands in a dip has more than one outlet, and the search returns
+    /// one of them. The boiling-point path (the default) and the reference-temperature path
+    /// have no dips.
+    ///
+    /// ```
+    /// use flashduty::warnings::Warning;
+    /// let w = Warning::OutletNotUnique {
+    ///     component: "propane".into(), critical_temperature_k: 369.83,
+    ///     outlet_temperature_k: 318.0, other_outlet_temperatures_k: vec![353.3, 372.1],
+    /// };
+    /// assert!(w.to_string().contains("also met at 353.30 K and 372.10 K"));
+    /// assert!(serde_json::to_string(&w).unwrap().contains("\"kind\":\"outlet-not-unique\""));
+    /// ```
+    OutletNotUnique {
+        /// The component whose critical temperature makes the dip.
+        component: String,
+        /// Its critical temperature, K.
+        critical_temperature_k: f64,
+        /// The outlet returned, K.
+        outlet_temperature_k: f64,
+        /// The other outlet temperatures found with the same enthalpy, K, ascending.
+        other_outlet_temperatures_k: Vec<f64>,
+    },
 }
 
 impl fmt::Display for Warning {
@@ -137,6 +167,28 @@ impl fmt::Display for Warning {
                 pressure_pa / 1e3,
                 crate::properties::VIRIAL_REDUCED_PRESSURE_PER_REDUCED_TEMPERATURE * reduced_temperature
             ),
+            Warning::OutletNotUnique {
+                component,
+                critical_temperature_k,
+                outlet_temperature_k,
+                other_outlet_temperatures_k,
+            } => {
+                let mut others: Vec<String> = other_outlet_temperatures_k
+                    .iter()
+                    .map(|t| format!("{t:.2} K"))
+                    .collect();
+                let last = others.pop().unwrap_or_default();
+                let others = if others.is_empty() {
+                    last
+                } else {
+                    format!("{} and {last}", others.join(", "))
+                };
+                write!(
+                    f,
+                    "the outlet at {outlet_temperature_k:.2} K is not the only one: along the stream-temperature path the enthalpy dips below the outlet's just under the critical temperature of {component} ({critical_temperature_k:.2} K), and the same duty is also met at {}; specify the outlet temperature, or use the boiling-point path",
+                    others
+                )
+            }
         }
     }
 }

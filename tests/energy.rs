@@ -170,6 +170,27 @@ fn check_state_function(
 
 /// The duty-specified flash inverts the heater duty: outlet T within 1e-6 K and vapour
 /// fraction within 1e-9, including pure components across their boiling point.
+/// The outlet of the inversion tests: subcooled (mode 0), two-phase on β (1: pure
+/// components are covered) or superheated (2); and the dew temperature.
+fn outlet_of(names: &[String], z: &[f64], p: Pressure, beta_out: f64, mode: u8) -> (StreamState, f64) {
+    let model = Raoult::from_names(names).unwrap();
+    let bub = flash(&model, z, FlashSpec::BubbleTemperature { pressure: p })
+        .unwrap()
+        .temperature_k;
+    let dew = flash(&model, z, FlashSpec::DewTemperature { pressure: p })
+        .unwrap()
+        .temperature_k;
+    let outlet = match mode {
+        0 => tp(bub - 5.0 - 40.0 * beta_out, p.pascal()),
+        1 => StreamState::PressureVapourFraction {
+            pressure: p,
+            vapour_fraction: beta_out,
+        },
+        _ => tp(dew + 5.0 + 40.0 * beta_out, p.pascal()),
+    };
+    (outlet, dew)
+}
+
 fn check_inversion(
     names: &[String],
     z: &[f64],
@@ -180,22 +201,7 @@ fn check_inversion(
     o: DutyOptions,
 ) -> Result<(), TestCaseError> {
     let s = Stream::from_names(names, z, MolarFlow::new("flow", 2.0).unwrap()).unwrap();
-    let model = Raoult::from_names(names).unwrap();
-    let bub = flash(&model, z, FlashSpec::BubbleTemperature { pressure: p })
-        .unwrap()
-        .temperature_k;
-    let dew = flash(&model, z, FlashSpec::DewTemperature { pressure: p })
-        .unwrap()
-        .temperature_k;
-    // Outlet: subcooled, two-phase (on β, so pure components are covered) or superheated.
-    let outlet = match mode {
-        0 => tp(bub - 5.0 - 40.0 * beta_out, p.pascal()),
-        1 => StreamState::PressureVapourFraction {
-            pressure: p,
-            vapour_fraction: beta_out,
-        },
-        _ => tp(dew + 5.0 + 40.0 * beta_out, p.pascal()),
-    };
+    let (outlet, _) = outlet_of(names, z, p, beta_out, mode);
     let inlet = tp(t_in, p.pascal());
     let forward = heater_duty(&s, inlet, outlet, o).unwrap();
     let back = outlet_for_duty(&s, inlet, Power::new("duty", forward.duty_w).unwrap(), p, o).unwrap();
@@ -315,9 +321,9 @@ proptest! {
     }
 
     /// The same with the second-virial vapour, over reference states and paths (a) and (c).
-    /// Path (b) is left out, as the ideal-gas test leaves it out: near a component's Tc its
-    /// vapour enthalpy falls with temperature (the latent heat at T drops to zero faster than
-    /// the liquid's Cp rises), with either vapour model, so a duty can have two outlets.
+    /// Path (b) has its own test below: near a component's Tc its enthalpy falls with
+    /// temperature (the latent heat at T drops to zero faster than the liquid's Cp rises),
+    /// with either vapour model, so a duty can have several outlets.
     #[test]
     fn duty_specified_flash_inverts_heater_duty_with_second_virial(
         (names, z) in mixtures(),
@@ -331,6 +337,36 @@ proptest! {
         let path = if path_c { VaporisationPath::ReferenceTemperature } else { VaporisationPath::BoilingPoint };
         let o = options_with(vapour_ref, t_ref, path, VapourModel::SecondVirial);
         check_inversion(&names, &z, t_in, p, beta_out, mode, o)?;
+    }
+
+    /// Along path (b), where one duty can have several outlets, the duty-specified flash
+    /// either inverts the heater duty or says so: an `outlet-not-unique` warning lists the
+    /// heater duty's outlet temperature among the others (within 1e-6 K). Outlets subcooled,
+    /// two-phase (where the enthalpy dips if a component's Tc lies between the bubble and
+    /// dew points) and superheated.
+    #[test]
+    fn duty_specified_flash_on_path_b_inverts_or_warns(
+        (names, z) in mixtures(),
+        t_in in 260.0f64..400.0,
+        log_p in (3e4f64).ln()..(4e5f64).ln(),
+        beta_out in 0.0f64..1.0,
+        mode in 0u8..3,
+        virial in any::<bool>(),
+    ) {
+        let p = Pressure::new("P", log_p.exp()).unwrap();
+        let vapour_model = if virial { VapourModel::SecondVirial } else { VapourModel::IdealGas };
+        let o = DutyOptions { path: VaporisationPath::StreamTemperature, vapour_model, ..DutyOptions::default() };
+        if let Err(TestCaseError::Fail(why)) = check_inversion(&names, &z, t_in, p, beta_out, mode, o) {
+            let (t_out, _) = outlet_of(&names, &z, p, beta_out, mode);
+            let s = Stream::from_names(&names, &z, MolarFlow::new("flow", 2.0).unwrap()).unwrap();
+            let inlet = tp(t_in, p.pascal());
+            let forward = heater_duty(&s, inlet, t_out, o).unwrap();
+            let back = outlet_for_duty(&s, inlet, Power::new("duty", forward.duty_w).unwrap(), p, o).unwrap();
+            let listed = back.warnings.iter().any(|w| matches!(w,
+                Warning::OutletNotUnique { other_outlet_temperatures_k, .. }
+                    if other_outlet_temperatures_k.iter().any(|t| (t - forward.outlet.temperature_k).abs() < 1e-6)));
+            prop_assert!(listed, "{why}; warnings {:?}", back.warnings);
+        }
     }
 
     /// dQ/dT_out, analytic, agrees with a central difference.
@@ -876,5 +912,69 @@ fn virial_range_warning() {
     assert!(
         matches!(w, Warning::VirialOutOfRange { temperature_k, .. } if *temperature_k == 640.0),
         "{w}"
+    );
+}
+
+/// Along the stream-temperature path (b) the vapour enthalpy carries the latent heat at T,
+/// which falls to zero at Tc with an unbounded slope, so it dips below each component's Tc
+/// and one duty can have several outlets. Propane/1-propanol 95/5 at 245 kPa (propane's Tc
+/// 369.8 K): heating from 260 K to 353.3 K and asking for that duty back gives a two-phase
+/// outlet near 317 K, with a warning that names 353.3 K (and one above Tc, near 433 K)
+/// among the other outlets, each of which gives the same duty forward (the check is the
+/// model's own consistency: every listed outlet is a state with the target enthalpy). The
+/// boiling-point path (a) has no dip: the duty comes back as 353.3 K, with no such warning.
+#[test]
+fn stream_temperature_path_warns_of_other_outlets() {
+    let s = stream(&["propane", "1-propanol"], &[0.95, 0.05]);
+    let p = Pressure::new("P", 245e3).unwrap();
+    let b = DutyOptions {
+        path: VaporisationPath::StreamTemperature,
+        ..DutyOptions::default()
+    };
+    let inlet = tp(260.0, p.pascal());
+    let forward = heater_duty(&s, inlet, tp(353.3, p.pascal()), b).unwrap();
+    let duty = Power::new("duty", forward.duty_w).unwrap();
+    let back = outlet_for_duty(&s, inlet, duty, p, b).unwrap();
+    let others = back
+        .warnings
+        .iter()
+        .find_map(|w| match w {
+            Warning::OutletNotUnique {
+                component,
+                critical_temperature_k,
+                outlet_temperature_k,
+                other_outlet_temperatures_k,
+            } => {
+                assert_eq!(component, "propane");
+                assert!(*critical_temperature_k > 353.3, "{critical_temperature_k}");
+                assert_eq!(*outlet_temperature_k, back.outlet.temperature_k);
+                Some(other_outlet_temperatures_k.clone())
+            }
+            _ => None,
+        })
+        .unwrap_or_else(|| panic!("no outlet-not-unique warning: {:?}", back.warnings));
+    assert!(back.outlet.temperature_k < 353.0, "{}", back.outlet.temperature_k);
+    assert!(
+        others.iter().any(|t| (t - 353.3).abs() < 1e-6),
+        "{others:?} should list 353.3 K"
+    );
+    for &t in &others {
+        let again = heater_duty(&s, inlet, tp(t, p.pascal()), b).unwrap();
+        assert!(
+            (again.duty_w - forward.duty_w).abs() <= 1e-8 * forward.duty_w.abs(),
+            "{t} K: {} vs {} W",
+            again.duty_w,
+            forward.duty_w
+        );
+    }
+    let a = DutyOptions::default();
+    let forward_a = heater_duty(&s, inlet, tp(353.3, p.pascal()), a).unwrap();
+    let back_a = outlet_for_duty(&s, inlet, Power::new("duty", forward_a.duty_w).unwrap(), p, a).unwrap();
+    assert!((back_a.outlet.temperature_k - 353.3).abs() < 1e-6);
+    assert!(
+        !back_a
+            .warnings
+            .iter()
+            .any(|w| matches!(w, Warning::OutletNotUnique { .. }))
     );
 }
