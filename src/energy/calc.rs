@@ -566,7 +566,9 @@ impl<'a> Calc<'a> {
     }
 
     /// The duty-specified flash: `inlet` flashed into `inlet_out`, and the state at
-    /// `outlet_pressure` after `duty` is added into `outlet_out`.
+    /// `outlet_pressure` after `duty` is added into `outlet_out`. Returns the bubble
+    /// temperature at the outlet pressure and the dew temperature where the search needed
+    /// it (as [`Self::state_for_enthalpy`]).
     pub fn outlet_for_duty(
         &self,
         inlet: StreamState,
@@ -574,17 +576,18 @@ impl<'a> Calc<'a> {
         outlet_pressure: Pressure,
         inlet_out: &mut Solved,
         outlet_out: &mut Solved,
-    ) -> Result<(), EnergyError> {
+    ) -> Result<(f64, Option<Option<f64>>), EnergyError> {
         self.flash_state("inlet", inlet, inlet_out)?;
         let target = self.enthalpy(inlet_out) + duty.watts() / self.flow();
         let t_bub = self.bubble_temperature(outlet_pressure, &mut outlet_out.buffers)?;
-        self.state_for_enthalpy(target, outlet_pressure, t_bub, None, duty.watts(), outlet_out)
+        let dew = self.state_for_enthalpy(target, outlet_pressure, t_bub, None, duty.watts(), outlet_out)?;
+        Ok((t_bub, dew))
     }
 
     /// Writes into `out` the state at pressure `p` whose enthalpy is `target` J/mol, given
     /// the bubble temperature at `p` and, where already known, the dew temperature
     /// (`Some(None)`: there is none); an unknown dew temperature is searched for only when
-    /// the target lies above the bubble point.
+    /// the target lies above the bubble point. Returns the dew temperature as then known.
     pub fn state_for_enthalpy(
         &self,
         target: f64,
@@ -593,7 +596,7 @@ impl<'a> Calc<'a> {
         dew: Option<Option<f64>>,
         duty_w: f64,
         out: &mut Solved,
-    ) -> Result<(), EnergyError> {
+    ) -> Result<Option<Option<f64>>, EnergyError> {
         let (z, p_pa) = (self.z(), p.pascal());
         let h_bub = self.saturated_enthalpy(Phase::Liquid, t_bub, p_pa);
         let out_of_reach = || EnergyError::DutyOutOfReach { duty_w };
@@ -614,26 +617,29 @@ impl<'a> Calc<'a> {
         };
         if target <= h_bub {
             // A T–P flash just below the bubble point is all liquid; clamp there.
-            return single(Phase::Liquid, t_bub - 10.0, t_bub, out);
+            single(Phase::Liquid, t_bub - 10.0, t_bub, out)?;
+            return Ok(dew);
         }
         let dew = match dew {
             Some(d) => d,
             None => self.dew_temperature(p, &mut out.buffers)?,
         };
         let Some(t_dew) = dew else {
-            return self.two_phase(target, p, t_bub, SEARCH_MAX_TEMPERATURE_K, out);
+            self.two_phase(target, p, t_bub, SEARCH_MAX_TEMPERATURE_K, out)?;
+            return Ok(Some(None));
         };
         let h_dew = self.saturated_enthalpy(Phase::Vapour, t_dew, p_pa);
         if target >= h_dew {
-            return single(Phase::Vapour, t_dew, t_dew + 10.0, out);
-        }
-        if t_dew - t_bub > WIDE_TWO_PHASE_K {
+            single(Phase::Vapour, t_dew, t_dew + 10.0, out)?;
+        } else if t_dew - t_bub > WIDE_TWO_PHASE_K {
             // Start where the enthalpy would be if it ran linearly from bubble to dew point.
             let fraction = ((target - h_bub) / (h_dew - h_bub)).clamp(0.01, 0.99);
             let start = t_bub + fraction * (t_dew - t_bub);
-            return self.two_phase_on_temperature(target, p, t_bub, t_dew, start, out);
+            self.two_phase_on_temperature(target, p, t_bub, t_dew, start, out)?;
+        } else {
+            self.two_phase(target, p, t_bub, t_dew, out)?;
         }
-        self.two_phase(target, p, t_bub, t_dew, out)
+        Ok(Some(Some(t_dew)))
     }
 
     /// A [`Warning::OutletNotUnique`] where the duty-specified outlet at `t_out` (enthalpy

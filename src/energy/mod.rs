@@ -440,21 +440,23 @@ pub fn outlet_for_duty(
     options: DutyOptions,
 ) -> Result<DutyResult, EnergyError> {
     let (calc, mut inlet_s, mut outlet_s) = Calc::with_states(stream, options)?;
-    calc.outlet_for_duty(inlet, duty, outlet_pressure, &mut inlet_s, &mut outlet_s)?;
+    let (t_bub, dew) = calc.outlet_for_duty(inlet, duty, outlet_pressure, &mut inlet_s, &mut outlet_s)?;
     let t_out = outlet_s.state.t;
     let mut result = calc.result(inlet_s, outlet_s, true);
     // Report the duty asked for; the computed one agrees to the solver tolerance.
     result.duty_w = duty.watts();
     if options.path == VaporisationPath::StreamTemperature {
-        // The search needs the bubble and dew points (no dew point: nothing vaporises, no
-        // other outlet; a failed search only skips the check).
+        // The search needs the dew point (for a liquid outlet not yet known; none: nothing
+        // vaporises, no other outlet; a failed search only skips the check).
         let mut scratch = Solved::new(calc.component_count());
-        let bubble = calc.bubble_temperature(outlet_pressure, &mut scratch.buffers).ok();
-        let dew = calc
-            .dew_temperature(outlet_pressure, &mut scratch.buffers)
-            .ok()
-            .flatten();
-        if let (Some(t_bub), Some(t_dew)) = (bubble, dew)
+        let dew = match dew {
+            Some(dew) => dew,
+            None => calc
+                .dew_temperature(outlet_pressure, &mut scratch.buffers)
+                .ok()
+                .flatten(),
+        };
+        if let Some(t_dew) = dew
             && let Some(w) = calc.outlet_uniqueness(
                 result.outlet_enthalpy_j_per_mol,
                 t_out,
