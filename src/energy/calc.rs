@@ -292,30 +292,43 @@ impl<'a> Calc<'a> {
     /// H = Σ zᵢ hᴸᵢ + Σ vᵢ (hⱽᵢ − hᴸᵢ) with vᵢ = β Kᵢ zᵢ / dᵢ, dᵢ = 1 − β + β Kᵢ, so
     /// dvᵢ/dT = (zᵢ/dᵢ)(Kᵢ/dᵢ) (dβ/dT + β (1 − β) ∂ln Kᵢ/∂T).
     pub fn enthalpy_and_slope(&self, s: &Solved) -> (f64, f64) {
+        let dbeta_dt = self.vapour_fraction_slope(s);
         match self.table.virial(self.components()) {
-            None => self.ideal_enthalpy_and_slope(s),
+            None => self.ideal_enthalpy_and_slope(s, dbeta_dt),
             Some(departures) => {
-                let (h, slope) = self.ideal_enthalpy_and_slope(s);
-                let (dh, dslope) = self.departure_and_slope(departures, s);
+                let (h, slope) = self.ideal_enthalpy_and_slope(s, dbeta_dt);
+                let (dh, dslope) = self.departure_and_slope(departures, s, dbeta_dt);
                 (h + dh, slope + dslope)
             }
         }
     }
 
+    /// dβ/dT at constant pressure of a state flashed at T and P (0 unless two-phase).
+    fn vapour_fraction_slope(&self, s: &Solved) -> f64 {
+        let st = &s.state;
+        if st.phase != Phase::TwoPhase {
+            return 0.0;
+        }
+        sensitivity(&self.zn, &s.buffers.kv, st.beta, st.liquid_fraction).map_or(0.0, |s| s.dvapour_fraction_dt_per_k)
+    }
+
+    /// dvᵢ/dT of a two-phase state, from dβ/dT: (zᵢ/dᵢ)(Kᵢ/dᵢ)(dβ/dT + β(1 − β) ∂ln Kᵢ/∂T).
+    #[inline]
+    fn vapour_amount_slope(&self, s: &Solved, i: usize, dbeta_dt: f64) -> f64 {
+        let (st, kv) = (&s.state, &s.buffers.kv);
+        let (beta, lf) = (st.beta, st.liquid_fraction);
+        let k = kv.k[i];
+        let d = lf + beta * k;
+        (self.z()[i] / d) * (k / d) * (dbeta_dt + beta * lf * kv.dln_k_dt[i])
+    }
+
     /// [`Self::enthalpy_and_slope`] without the second-virial departures: the ideal-gas
     /// vapour's, or the rest of the second virial's.
     #[inline]
-    fn ideal_enthalpy_and_slope(&self, s: &Solved) -> (f64, f64) {
+    fn ideal_enthalpy_and_slope(&self, s: &Solved, dbeta_dt: f64) -> (f64, f64) {
         let (table, components) = (&self.table, self.components());
-        let st = &s.state;
-        let (t, beta, lf) = (st.t, st.beta, st.liquid_fraction);
-        let two_phase = st.phase == Phase::TwoPhase;
-        let kv = &s.buffers.kv;
-        let dbeta_dt = if two_phase {
-            sensitivity(&self.zn, kv, beta, lf).map_or(0.0, |s| s.dvapour_fraction_dt_per_k)
-        } else {
-            0.0
-        };
+        let t = s.state.t;
+        let two_phase = s.state.phase == Phase::TwoPhase;
         let z = self.z();
         let (mut h, mut slope) = (0.0, 0.0);
         for (i, &zi) in z.iter().enumerate() {
@@ -336,30 +349,20 @@ impl<'a> Calc<'a> {
             }
             slope += l * pure.slope(Phase::Liquid, t) + v * pure.slope(Phase::Vapour, t);
             if let (true, Some(hl), Some(hv)) = (two_phase, h_liquid, h_vapour) {
-                let k = kv.k[i];
-                let d = lf + beta * k;
-                let dv = (zi / d) * (k / d) * (dbeta_dt + beta * lf * kv.dln_k_dt[i]);
-                slope += dv * (hv - hl);
+                slope += self.vapour_amount_slope(s, i, dbeta_dt) * (hv - hl);
             }
         }
         (h, slope)
     }
 
     /// The second-virial part of [`Self::enthalpy_and_slope`], apart (and out of line, so
-    /// that the ideal-gas loop is compiled as it was; dβ/dT is found again here, a small
-    /// cost beside the correlation's): the liquid's departure is a constant, the vapour's
-    /// changes with T at constant P, and a two-phase state moves dvᵢ/dT between them.
+    /// that the ideal-gas loop is compiled as it was): the liquid's departure is a
+    /// constant, the vapour's changes with T at constant P, and a two-phase state moves
+    /// dvᵢ/dT between them.
     #[inline(never)]
-    fn departure_and_slope(&self, departures: Departures<'_>, s: &Solved) -> (f64, f64) {
-        let st = &s.state;
-        let (t, p, beta, lf) = (st.t, st.p, st.beta, st.liquid_fraction);
-        let two_phase = st.phase == Phase::TwoPhase;
-        let kv = &s.buffers.kv;
-        let dbeta_dt = if two_phase {
-            sensitivity(&self.zn, kv, beta, lf).map_or(0.0, |s| s.dvapour_fraction_dt_per_k)
-        } else {
-            0.0
-        };
+    fn departure_and_slope(&self, departures: Departures<'_>, s: &Solved, dbeta_dt: f64) -> (f64, f64) {
+        let (t, p) = (s.state.t, s.state.p);
+        let two_phase = s.state.phase == Phase::TwoPhase;
         let (mut dh, mut dslope) = (0.0, 0.0);
         for (i, &zi) in self.z().iter().enumerate() {
             if zi == 0.0 {
@@ -376,10 +379,7 @@ impl<'a> Calc<'a> {
             }
             dslope += v * vapour_slope;
             if two_phase {
-                let k = kv.k[i];
-                let d = lf + beta * k;
-                let dv = (zi / d) * (k / d) * (dbeta_dt + beta * lf * kv.dln_k_dt[i]);
-                dslope += dv * (vapour - liquid);
+                dslope += self.vapour_amount_slope(s, i, dbeta_dt) * (vapour - liquid);
             }
         }
         (dh, dslope)
