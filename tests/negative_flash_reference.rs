@@ -68,7 +68,7 @@ use flashduty::rachford_rice::{Options, Phase, solve_into};
 mod big;
 #[path = "common/rng.rs"]
 mod rng;
-use big::{Big, big, err, normalise, to_f64};
+use big::{Big, big, err, exact_feed, normalise, to_f64};
 use rng::Rng;
 
 /// Cases in the run: every kind on both sides in turn.
@@ -421,17 +421,8 @@ struct Coordinate {
 
 impl Problem {
     fn new(z: &[f64], k: &[f64]) -> Self {
-        let zb: Vec<Big> = z.iter().map(|&v| big(v)).collect();
-        let mut sum = big(0.0);
-        for v in &zb {
-            sum += v;
-        }
-        let one = big(1.0);
-        Self {
-            z: zb.iter().map(|v| v / &sum).collect(),
-            t: k.iter().map(|&v| big(v) - &one).collect(),
-            k: k.to_vec(),
-        }
+        let (z, t) = exact_feed(z, k);
+        Self { z, t, k: k.to_vec() }
     }
 
     fn live(&self) -> impl Iterator<Item = usize> + '_ {

@@ -30,7 +30,7 @@ use flashduty::rachford_rice::{Options, Phase, solve_into};
 mod big;
 #[path = "common/rng.rs"]
 mod rng;
-use big::{Big, PREC, big, err, normalise, to_f64};
+use big::{Big, PREC, big, err, exact_feed, normalise, to_f64};
 use rng::Rng;
 
 /// Cases in the run.
@@ -199,17 +199,8 @@ struct Problem {
 
 impl Problem {
     fn new(z: &[f64], k: &[f64]) -> Self {
-        let zb: Vec<Big> = z.iter().map(|&v| big(v)).collect();
-        let mut sum = big(0.0);
-        for v in &zb {
-            sum += v;
-        }
-        let one = big(1.0);
-        Self {
-            zn: zb.iter().map(|v| v / &sum).collect(),
-            t: k.iter().map(|&v| big(v) - &one).collect(),
-            one,
-        }
+        let (zn, t) = exact_feed(z, k);
+        Self { zn, t, one: big(1.0) }
     }
 
     /// F and F' at β (components with z = 0 are skipped).

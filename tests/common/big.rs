@@ -31,3 +31,18 @@ pub fn normalise(w: &mut [f64]) {
     let s: f64 = w.iter().sum();
     w.iter_mut().for_each(|v| *v /= s);
 }
+
+/// The feed in 200 bits: z normalised by its exact sum (each quotient rounded to 200 bits),
+/// and Kᵢ − 1, exact.
+pub fn exact_feed(z: &[f64], k: &[f64]) -> (Vec<Big>, Vec<Big>) {
+    let zb: Vec<Big> = z.iter().map(|&v| big(v)).collect();
+    let mut sum = big(0.0);
+    for v in &zb {
+        sum += v;
+    }
+    let one = big(1.0);
+    (
+        zb.iter().map(|v| v / &sum).collect(),
+        k.iter().map(|&v| big(v) - &one).collect(),
+    )
+}
