@@ -676,10 +676,9 @@ impl<'a> Calc<'a> {
             .filter(|&(tc, _)| tc > t_bub && tc < SEARCH_MAX_TEMPERATURE_K)
             .collect();
         cusps.sort_by(|a, b| a.0.total_cmp(&b.0));
-        let split = cusps.partition_point(|c| c.0 <= t_dew);
-        let two_phase = t_dew - t_bub > WIDE_TWO_PHASE_K;
-        let (inside, above) = cusps.split_at(if two_phase { split } else { 0 });
-        let above = &above[above.partition_point(|c| c.0 <= t_dew)..];
+        let (inside, above) = cusps.split_at(cusps.partition_point(|c| c.0 <= t_dew));
+        // A narrow two-phase region is solved on β, not searched on T.
+        let inside = if t_dew - t_bub > WIDE_TWO_PHASE_K { inside } else { &[] };
         let mut failed = false;
         let mut mixture = |t: f64| match self.tp_into(t, p, scratch) {
             Ok(()) => {
