@@ -123,7 +123,12 @@ fn lines() -> Vec<String> {
                 }
                 opt_bits(&mut line, r.dduty_dt_out_w_per_k);
                 let s = r.path_spread;
-                for x in [s.boiling_point_w, s.stream_temperature_w, s.reference_temperature_w, s.spread_w] {
+                for x in [
+                    s.boiling_point_w,
+                    s.stream_temperature_w,
+                    s.reference_temperature_w,
+                    s.spread_w,
+                ] {
                     bits(&mut line, x);
                 }
                 for row in &r.table {
@@ -233,6 +238,9 @@ fn ideal_mixture_numbers_are_unchanged_to_the_bit() {
         }
     }
     let errors = now.iter().filter(|l| l.contains("error")).count();
-    println!("energy baseline: {} cases, {errors} with an error path, {differ} differ", now.len());
+    println!(
+        "energy baseline: {} cases, {errors} with an error path, {differ} differ",
+        now.len()
+    );
     assert_eq!(differ, 0, "{differ} of {} cases changed", now.len());
 }

@@ -4,14 +4,19 @@
 //! their full results from it; [`DutyCalculator`](super::DutyCalculator) keeps one and its
 //! buffers for hot loops, so both give the same numbers by construction.
 
-use super::enthalpy::{Departures, PathTable, enthalpy_warnings, virial_warnings};
-use super::{
-    DutyOptions, DutyResult, DutySummary, EnergyError, EnthalpyRow, PathSpread, StateSummary, Stream, StreamState,
-    VaporisationPath,
-};
+use super::departure::Departures;
+use super::duty_calculator::{DutySummary, StateSummary};
+use super::ideal::EnthalpyModel;
+use super::options::DutyOptions;
+use super::path_table::PathTable;
+use super::phase_enthalpy::PhaseEnthalpyModel;
+use super::range_warnings::{enthalpy_warnings, virial_warnings};
+use super::reference::VaporisationPath;
+use super::result::{DutyResult, EnergyError, EnthalpyRow, PathSpread};
+use super::stream::{Stream, StreamState};
 use crate::equilibrium::{
-    FlashBuffers, FlashSpec, Raoult, SEARCH_MAX_TEMPERATURE_K, SEARCH_MIN_TEMPERATURE_K, SolvedState, flash_into,
-    flash_result, saturation_temperature, sensitivity,
+    FlashBuffers, FlashError, FlashSpec, KValueModel, Raoult, SEARCH_MAX_TEMPERATURE_K, SEARCH_MIN_TEMPERATURE_K,
+    SolvedState, amount_slopes, flash_into, flash_result, saturation_temperature, sensitivity,
 };
 use crate::properties::Component;
 use crate::rachford_rice::Phase;
@@ -23,7 +28,7 @@ use std::sync::Arc;
 
 /// Above this width of the two-phase region (dew minus bubble temperature), the
 /// duty-specified flash solves on temperature; below it, on vapour fraction.
-const WIDE_TWO_PHASE_K: f64 = 1.0;
+pub(crate) const WIDE_TWO_PHASE_K: f64 = 1.0;
 
 /// A flashed state and the buffers holding its K-values and compositions.
 #[derive(Debug, Clone)]
@@ -70,76 +75,129 @@ impl Solved {
     }
 }
 
-/// The calculator: a stream's K-value and enthalpy models together.
+/// The calculator: a stream's K-value and enthalpy models together. The defaults are the
+/// library's: Raoult's law and the ideal-mixing [`EnthalpyModel`] of a [`DutyOptions`].
 #[derive(Debug, Clone)]
-pub(crate) struct Calc<'a> {
+pub(crate) struct Calc<'a, K = Raoult, H = EnthalpyModel> {
     stream: Cow<'a, Stream>,
     /// z as [`crate::equilibrium::flash`] normalises it, so that every flash here is the
     /// one `flash` would do.
     zn: Vec<f64>,
-    /// Raoult's law over the stream's components (also the list every enthalpy reads).
-    k_model: Raoult,
-    /// The enthalpy constants for the reference state, path and vapour model of `options`.
-    table: PathTable,
-    options: DutyOptions,
+    k_model: K,
+    enthalpy: H,
+}
+
+/// z normalised as [`crate::equilibrium::flash`] does.
+fn normalised_z(stream: &Stream) -> Result<Vec<f64>, EnergyError> {
+    let z = stream.z();
+    let sum = crate::rachford_rice::validate(z, z)?;
+    Ok(if sum == 1.0 {
+        z.to_vec()
+    } else {
+        z.iter().map(|v| v / sum).collect()
+    })
 }
 
 impl<'a> Calc<'a> {
+    /// The library's models for `stream`: Raoult's law over its components and the
+    /// [`EnthalpyModel`] of `options`.
+    ///
     /// # Errors
     /// [`EnergyError::Unit`] for a reference temperature that is not finite and positive.
     pub fn new(stream: Cow<'a, Stream>, options: DutyOptions) -> Result<Self, EnergyError> {
         Temperature::new("reference.temperature_k", options.reference.temperature_k)?;
-        let z = stream.z();
-        let sum = crate::rachford_rice::validate(z, z)?;
-        let zn = if sum == 1.0 {
-            z.to_vec()
-        } else {
-            z.iter().map(|v| v / sum).collect()
-        };
+        let zn = normalised_z(&stream)?;
         let components = stream.components();
         Ok(Self {
-            table: PathTable::new(components, options.reference, options.path, options.vapour_model),
+            enthalpy: EnthalpyModel::from_options(components.to_vec(), options),
             k_model: Raoult::new(components.to_vec()),
             zn,
             stream,
-            options,
+        })
+    }
+}
+
+impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
+    /// A calculator with the given models.
+    ///
+    /// # Errors
+    /// [`EnergyError::Flash`] with [`FlashError::ComponentCount`] where a model's component
+    /// count is not the stream's; [`EnergyError::Unit`] for an ideal base whose reference
+    /// temperature is not finite and positive.
+    pub fn with_models(stream: Cow<'a, Stream>, k_model: K, enthalpy: H) -> Result<Self, EnergyError> {
+        let n = stream.z().len();
+        for count in [k_model.component_count(), enthalpy.component_count()] {
+            if count != n {
+                return Err(FlashError::ComponentCount {
+                    components: count,
+                    z: n,
+                }
+                .into());
+            }
+        }
+        if let Some(base) = enthalpy.ideal_base() {
+            Temperature::new("reference.temperature_k", base.reference().temperature_k)?;
+        }
+        let zn = normalised_z(&stream)?;
+        Ok(Self {
+            stream,
+            zn,
+            k_model,
+            enthalpy,
         })
     }
 
-    /// A calculator borrowing `stream`, and buffers for an inlet and an outlet state.
-    pub fn with_states(stream: &'a Stream, options: DutyOptions) -> Result<(Self, Solved, Solved), EnergyError> {
-        let calc = Self::new(Cow::Borrowed(stream), options)?;
-        let n = calc.component_count();
-        Ok((calc, Solved::new(n), Solved::new(n)))
+    /// The ideal-mixing model where the enthalpy model is exactly that: the per-component
+    /// sums are then taken as hand calculations take them.
+    #[inline(always)]
+    fn ideal(&self) -> Option<&EnthalpyModel> {
+        if self.enthalpy.is_ideal_mixing() {
+            self.enthalpy.ideal_base()
+        } else {
+            None
+        }
+    }
+
+    /// The ideal-mixing model the enthalpy model is built on, if any.
+    #[inline]
+    pub fn base(&self) -> Option<&EnthalpyModel> {
+        self.enthalpy.ideal_base()
     }
 
     pub fn stream(&self) -> &Stream {
         &self.stream
     }
 
+    /// The options of the ideal base (the defaults where there is none).
     pub fn options(&self) -> DutyOptions {
-        self.options
+        self.base().map_or_else(DutyOptions::default, EnthalpyModel::options)
     }
 
     pub fn component_count(&self) -> usize {
         self.zn.len()
     }
 
-    fn flow(&self) -> f64 {
+    pub(super) fn flow(&self) -> f64 {
         self.stream.flow().mol_per_s()
     }
 
-    fn z(&self) -> &[f64] {
+    pub(super) fn z(&self) -> &[f64] {
         self.stream.z()
     }
 
+    /// The stream's components (names and molar masses).
     fn components(&self) -> &[Arc<Component>] {
-        self.k_model.components()
+        self.stream.components()
     }
 
     /// Flashes `spec` into `out` (the flash [`crate::equilibrium::flash`] does, without
     /// allocating).
-    fn flash_spec(&self, spec: FlashSpec, t_bracket: Option<(f64, f64)>, out: &mut Solved) -> Result<(), EnergyError> {
+    pub(super) fn flash_spec(
+        &self,
+        spec: FlashSpec,
+        t_bracket: Option<(f64, f64)>,
+        out: &mut Solved,
+    ) -> Result<(), EnergyError> {
         out.state = flash_into(&self.k_model, &self.zn, spec, t_bracket, &mut out.buffers)?;
         Ok(())
     }
@@ -169,7 +227,7 @@ impl<'a> Calc<'a> {
     }
 
     /// The T–P flash of the stream at `t_k` and `p` into `out`.
-    fn tp_into(&self, t_k: f64, p: Pressure, out: &mut Solved) -> Result<(), EnergyError> {
+    pub(super) fn tp_into(&self, t_k: f64, p: Pressure, out: &mut Solved) -> Result<(), EnergyError> {
         let spec = FlashSpec::TemperaturePressure {
             temperature: Temperature::new("T", t_k)?,
             pressure: p,
@@ -202,11 +260,44 @@ impl<'a> Calc<'a> {
 
     /// Per mole of stream: Σ over components and phases of amount × enthalpy.
     pub fn enthalpy(&self, s: &Solved) -> f64 {
-        let h = self.enthalpy_with(&self.table, s);
-        match self.table.virial(self.components()) {
+        let Some(m) = self.ideal() else {
+            return self.general_enthalpy(s);
+        };
+        let h = self.enthalpy_with(m.table(), m.components(), s);
+        match m.table().virial(m.components()) {
             Some(v) => h + self.departure(v, s),
             None => h,
         }
+    }
+
+    /// The phases of a state: (phase, amount per mole of stream, composition).
+    fn phases<'s>(&'s self, s: &'s Solved) -> [(Phase, f64, &'s [f64]); 2] {
+        let st = &s.state;
+        match st.phase {
+            Phase::Liquid => [(Phase::Liquid, 1.0, self.z()), (Phase::Vapour, 0.0, &[])],
+            Phase::Vapour => [(Phase::Liquid, 0.0, &[]), (Phase::Vapour, 1.0, self.z())],
+            Phase::TwoPhase => [
+                (
+                    Phase::Liquid,
+                    if st.has_liquid { st.liquid_fraction } else { 0.0 },
+                    &s.buffers.x,
+                ),
+                (Phase::Vapour, if st.has_vapour { st.beta } else { 0.0 }, &s.buffers.y),
+            ],
+        }
+    }
+
+    /// [`Self::enthalpy`] for any phase-enthalpy model: Σ over phases of amount × the
+    /// phase's molar enthalpy.
+    fn general_enthalpy(&self, s: &Solved) -> f64 {
+        let (t, p) = (s.state.t, s.state.p);
+        let mut total = 0.0;
+        for (phase, amount, x) in self.phases(s) {
+            if amount > 0.0 {
+                total += amount * self.enthalpy.phase_enthalpy(phase, x, t, p).0;
+            }
+        }
+        total
     }
 
     /// Per mole of stream: Σ over components and phases of amount × second-virial
@@ -227,9 +318,8 @@ impl<'a> Calc<'a> {
         total
     }
 
-    fn enthalpy_with(&self, table: &PathTable, s: &Solved) -> f64 {
+    fn enthalpy_with(&self, table: &PathTable, components: &[Arc<Component>], s: &Solved) -> f64 {
         let t = s.state.t;
-        let components = self.components();
         let mut total = 0.0;
         for i in 0..self.component_count() {
             let (l, v) = self.amounts(s, i);
@@ -252,23 +342,30 @@ impl<'a> Calc<'a> {
 
     /// The enthalpy of a phase of composition `fractions` at `t_k` and `p_pa`, J/mol.
     #[inline]
-    fn phase_enthalpy(&self, phase: Phase, fractions: &[f64], t_k: f64, p_pa: f64) -> f64 {
-        self.table
-            .phase_enthalpy_at(self.components(), phase, fractions, t_k, p_pa)
+    pub(crate) fn phase_enthalpy(&self, phase: Phase, fractions: &[f64], t_k: f64, p_pa: f64) -> f64 {
+        match self.ideal() {
+            Some(m) => m.table().phase_enthalpy_at(m.components(), phase, fractions, t_k, p_pa),
+            None => self.enthalpy.phase_enthalpy(phase, fractions, t_k, p_pa).0,
+        }
     }
 
     /// d/dT at constant pressure of [`Self::phase_enthalpy`], J/(mol·K).
     #[inline]
-    fn phase_slope(&self, phase: Phase, fractions: &[f64], t_k: f64, p_pa: f64) -> f64 {
-        self.table
-            .phase_slope_at(self.components(), phase, fractions, t_k, p_pa)
+    pub(crate) fn phase_slope(&self, phase: Phase, fractions: &[f64], t_k: f64, p_pa: f64) -> f64 {
+        match self.ideal() {
+            Some(m) => m.table().phase_slope_at(m.components(), phase, fractions, t_k, p_pa),
+            None => self.enthalpy.phase_enthalpy(phase, fractions, t_k, p_pa).1,
+        }
     }
 
     /// Adds the second-virial range warnings of the state (none under an ideal-gas
     /// vapour); `warned` keeps one byte per component across calls.
     pub fn vapour_model_warnings(&self, s: &Solved, warned: &mut [u8], out: &mut Vec<Warning>) {
-        let o = self.options;
-        for (i, c) in self.components().iter().enumerate() {
+        let Some(base) = self.base() else {
+            return;
+        };
+        let o = base.options();
+        for (i, c) in base.components().iter().enumerate() {
             let (l, v) = self.amounts(s, i);
             for (amount, phase) in [(l, Phase::Liquid), (v, Phase::Vapour)] {
                 if amount > 0.0 {
@@ -281,7 +378,6 @@ impl<'a> Calc<'a> {
 
     /// Adds the K-value model's warnings at the state (those of its flash result).
     pub fn flash_warnings(&self, s: &Solved, out: &mut Vec<Warning>) {
-        use crate::equilibrium::KValueModel;
         self.k_model.warnings(s.state.t, s.state.p, out);
     }
 
@@ -291,16 +387,53 @@ impl<'a> Calc<'a> {
     ///
     /// H = Σ zᵢ hᴸᵢ + Σ vᵢ (hⱽᵢ − hᴸᵢ) with vᵢ = β Kᵢ zᵢ / dᵢ, dᵢ = 1 − β + β Kᵢ, so
     /// dvᵢ/dT = (zᵢ/dᵢ)(Kᵢ/dᵢ) (dβ/dT + β (1 − β) ∂ln Kᵢ/∂T).
+    ///
+    /// For a composition-dependent K-value model or any phase-enthalpy model other than
+    /// ideal mixing: H = Σ over phases of nₚ hₚ(T, xₚ), and
+    /// dH/dT = Σₚ nₚ ∂hₚ/∂T + Σᵢ (h̄ⱽᵢ − h̄ᴸᵢ) dvᵢ/dT, with the partial molar enthalpies h̄ and
+    /// dvᵢ/dT from the equilibrium conditions in full.
     pub fn enthalpy_and_slope(&self, s: &Solved) -> (f64, f64) {
+        let m = match self.ideal() {
+            Some(m) if !self.k_model.is_composition_dependent() => m,
+            _ => return self.general_enthalpy_and_slope(s),
+        };
         let dbeta_dt = self.vapour_fraction_slope(s);
-        match self.table.virial(self.components()) {
-            None => self.ideal_enthalpy_and_slope(s, dbeta_dt),
+        match m.table().virial(m.components()) {
+            None => self.ideal_enthalpy_and_slope(m, s, dbeta_dt),
             Some(departures) => {
-                let (h, slope) = self.ideal_enthalpy_and_slope(s, dbeta_dt);
+                let (h, slope) = self.ideal_enthalpy_and_slope(m, s, dbeta_dt);
                 let (dh, dslope) = self.departure_and_slope(departures, s, dbeta_dt);
                 (h + dh, slope + dslope)
             }
         }
+    }
+
+    /// [`Self::enthalpy_and_slope`] for any pair of models.
+    fn general_enthalpy_and_slope(&self, s: &Solved) -> (f64, f64) {
+        let (t, p) = (s.state.t, s.state.p);
+        let n = self.component_count();
+        let (mut h, mut slope) = (0.0, 0.0);
+        for (phase, amount, x) in self.phases(s) {
+            if amount > 0.0 {
+                let (hp, sp) = self.enthalpy.phase_enthalpy(phase, x, t, p);
+                h += amount * hp;
+                slope += amount * sp;
+            }
+        }
+        if s.state.phase == Phase::TwoPhase && s.state.has_liquid && s.state.has_vapour {
+            let (mut dv_dt, mut dv_dp) = (vec![0.0; n], vec![0.0; n]);
+            if amount_slopes(&self.k_model, &self.zn, &s.state, &s.buffers, &mut dv_dt, &mut dv_dp) {
+                let (mut h_liquid, mut h_vapour) = (vec![0.0; n], vec![0.0; n]);
+                self.enthalpy
+                    .partial_molar_enthalpies(Phase::Liquid, &s.buffers.x, t, p, &mut h_liquid);
+                self.enthalpy
+                    .partial_molar_enthalpies(Phase::Vapour, &s.buffers.y, t, p, &mut h_vapour);
+                for i in 0..n {
+                    slope += dv_dt[i] * (h_vapour[i] - h_liquid[i]);
+                }
+            }
+        }
+        (h, slope)
     }
 
     /// dβ/dT at constant pressure of a state flashed at T and P (0 unless two-phase).
@@ -325,8 +458,8 @@ impl<'a> Calc<'a> {
     /// [`Self::enthalpy_and_slope`] without the second-virial departures: the ideal-gas
     /// vapour's, or the rest of the second virial's.
     #[inline]
-    fn ideal_enthalpy_and_slope(&self, s: &Solved, dbeta_dt: f64) -> (f64, f64) {
-        let (table, components) = (&self.table, self.components());
+    fn ideal_enthalpy_and_slope(&self, m: &EnthalpyModel, s: &Solved, dbeta_dt: f64) -> (f64, f64) {
+        let (table, components) = (m.table(), m.components());
         let t = s.state.t;
         let two_phase = s.state.phase == Phase::TwoPhase;
         let z = self.z();
@@ -417,16 +550,19 @@ impl<'a> Calc<'a> {
         warned: &mut [u8],
         warnings: &mut Vec<Warning>,
     ) {
+        let Some(m) = self.ideal() else {
+            return self.general_rows(state, s, out, warned, warnings);
+        };
         let flow = self.flow();
         let (t, p) = (s.state.t, s.state.p);
-        let o = self.options;
-        for (i, c) in self.components().iter().enumerate() {
+        let o = m.options();
+        for (i, c) in m.components().iter().enumerate() {
             let (l, v) = self.amounts(s, i);
             for (amount, phase) in [(l, Phase::Liquid), (v, Phase::Vapour)] {
                 if amount <= 0.0 {
                     continue;
                 }
-                let split = self.table.split_at(self.components(), i, phase, t, p);
+                let split = m.table().split_at(m.components(), i, phase, t, p);
                 let w = &mut warned[i];
                 enthalpy_warnings(c, o, phase, t, p, w, warnings);
                 let h = split.total_j_per_mol();
@@ -440,7 +576,62 @@ impl<'a> Calc<'a> {
                     latent_j_per_mol: split.latent_j_per_mol,
                     vapour_sensible_j_per_mol: split.vapour_sensible_j_per_mol,
                     vapour_departure_j_per_mol: split.vapour_departure_j_per_mol,
+                    excess_j_per_mol: 0.0,
                     enthalpy_flow_w: amount * flow * h,
+                });
+            }
+        }
+    }
+
+    /// [`Self::rows`] for any phase-enthalpy model: each row's enthalpy is the component's
+    /// partial molar enthalpy in its phase (so the rows still add up to the stream's
+    /// enthalpy), split into the ideal base's parts where there is a base, and the rest in
+    /// `excess_j_per_mol`.
+    fn general_rows(
+        &self,
+        state: &'static str,
+        s: &Solved,
+        out: &mut Vec<EnthalpyRow>,
+        warned: &mut [u8],
+        warnings: &mut Vec<Warning>,
+    ) {
+        let flow = self.flow();
+        let (t, p) = (s.state.t, s.state.p);
+        let n = self.component_count();
+        let base = self.base();
+        let mut h_bar = vec![0.0; n];
+        for (phase, amount, x) in self.phases(s) {
+            if amount <= 0.0 {
+                continue;
+            }
+            self.enthalpy.partial_molar_enthalpies(phase, x, t, p, &mut h_bar);
+            for (i, c) in self.components().iter().enumerate() {
+                let component_amount = amount * x[i];
+                if component_amount <= 0.0 {
+                    continue;
+                }
+                let split = match base {
+                    Some(m) => {
+                        if let Some(bc) = m.components().get(i) {
+                            enthalpy_warnings(bc, m.options(), phase, t, p, &mut warned[i], warnings);
+                        }
+                        m.table().split_at(m.components(), i, phase, t, p)
+                    }
+                    None => Default::default(),
+                };
+                let h = h_bar[i];
+                out.push(EnthalpyRow {
+                    state,
+                    component: c.name().to_string(),
+                    phase,
+                    flow_mol_s: component_amount * flow,
+                    enthalpy_j_per_mol: h,
+                    liquid_sensible_j_per_mol: split.liquid_sensible_j_per_mol,
+                    latent_j_per_mol: split.latent_j_per_mol,
+                    vapour_sensible_j_per_mol: split.vapour_sensible_j_per_mol,
+                    vapour_departure_j_per_mol: split.vapour_departure_j_per_mol,
+                    excess_j_per_mol: h - split.total_j_per_mol(),
+                    enthalpy_flow_w: component_amount * flow * h,
                 });
             }
         }
@@ -449,11 +640,18 @@ impl<'a> Calc<'a> {
     /// The duty along every path; `selected_duty_w` is the one already known for the
     /// model's own path. The other paths' constants are computed here, once each, and each
     /// component's liquid sensible heat once per state for both.
+    ///
+    /// For a model that adds to an ideal base, the other paths' duties are the selected
+    /// duty plus the base's change of duty between the paths (what the model adds does not
+    /// depend on the path); for a model with no base, every path gives the selected duty.
     fn path_spread(&self, inlet: &Solved, outlet: &Solved, selected_duty_w: f64) -> PathSpread {
+        let Some(base) = self.base() else {
+            return spread_of([selected_duty_w; 3]);
+        };
         let flow = self.flow();
-        let (reference, selected, vapour_model) =
-            (self.options.reference, self.options.path, self.options.vapour_model);
-        let components = self.components();
+        let o = base.options();
+        let (reference, selected, vapour_model) = (o.reference, o.path, o.vapour_model);
+        let components = base.components();
         let others: Vec<(VaporisationPath, PathTable)> = VaporisationPath::ALL
             .into_iter()
             .filter(|p| *p != selected)
@@ -491,23 +689,29 @@ impl<'a> Calc<'a> {
             totals
         };
         let (h_in, h_out) = (enthalpies(inlet), enthalpies(outlet));
+        // What the model adds to its base, per unit of duty: nothing under ideal mixing.
+        let added_w = if self.ideal().is_some() {
+            None
+        } else {
+            let base_enthalpy = |s: &Solved| {
+                let h = self.enthalpy_with(base.table(), components, s);
+                match base.table().virial(components) {
+                    Some(v) => h + self.departure(v, s),
+                    None => h,
+                }
+            };
+            Some(selected_duty_w - flow * (base_enthalpy(outlet) - base_enthalpy(inlet)))
+        };
         let duty = |path| {
             others
                 .iter()
                 .position(|(p, _)| *p == path)
-                .map_or(selected_duty_w, |k| flow * (h_out[k] - h_in[k]))
+                .map_or(selected_duty_w, |k| {
+                    let ideal = flow * (h_out[k] - h_in[k]);
+                    added_w.map_or(ideal, |a| ideal + a)
+                })
         };
-        let [a, b, c] = VaporisationPath::ALL.map(duty);
-        let max = a.max(b).max(c);
-        let min = a.min(b).min(c);
-        let scale = a.abs().max(b.abs()).max(c.abs());
-        PathSpread {
-            boiling_point_w: a,
-            stream_temperature_w: b,
-            reference_temperature_w: c,
-            spread_w: max - min,
-            relative: if scale > 0.0 { (max - min) / scale } else { 0.0 },
-        }
+        spread_of(VaporisationPath::ALL.map(duty))
     }
 
     /// The full result: [`Self::summary`]'s numbers with both flash results, the enthalpy
@@ -538,7 +742,7 @@ impl<'a> Calc<'a> {
             table,
             dduty_dt_out_w_per_k: summary.dduty_dt_out_w_per_k,
             path_spread: spread,
-            options: self.options,
+            options: self.options(),
             warnings,
             inlet,
             outlet,
@@ -642,87 +846,6 @@ impl<'a> Calc<'a> {
         Ok(Some(Some(t_dew)))
     }
 
-    /// A [`Warning::OutletNotUnique`] where the duty-specified outlet at `t_out` (enthalpy
-    /// `target` J/mol, pressure `p`) is not the only state with that enthalpy; `scratch`
-    /// holds the flashes of the search.
-    ///
-    /// Only the stream-temperature path can have several: its vapour enthalpy carries the
-    /// latent heat at T, which falls to zero at Tc with an unbounded slope, so a vapour's
-    /// enthalpy has a cusp-shaped minimum at every component's Tc, and so has a two-phase
-    /// mixture's where that Tc lies between the bubble and dew points. (Along the other
-    /// paths the latent heat is taken at a fixed temperature.) The two-phase region
-    /// (`t_bub` to `t_dew`, wider than [`WIDE_TWO_PHASE_K`]) and the vapour branch above
-    /// `t_dew` are searched, each cut at the critical temperatures inside it
-    /// ([`crossings`]); the liquid's enthalpy rises with T. Nothing is searched unless the
-    /// enthalpy at some Tc is below the target.
-    pub fn outlet_uniqueness(
-        &self,
-        target: f64,
-        t_out: f64,
-        (t_bub, t_dew): (f64, f64),
-        p: Pressure,
-        scratch: &mut Solved,
-    ) -> Option<Warning> {
-        if self.options.path != VaporisationPath::StreamTemperature {
-            return None;
-        }
-        let (z, p_pa) = (self.z(), p.pascal());
-        let mut cusps: Vec<(f64, usize)> = self
-            .components()
-            .iter()
-            .enumerate()
-            .filter(|&(i, _)| z[i] > 0.0)
-            .map(|(i, c)| (c.critical_temperature_k(), i))
-            .filter(|&(tc, _)| tc > t_bub && tc < SEARCH_MAX_TEMPERATURE_K)
-            .collect();
-        cusps.sort_by(|a, b| a.0.total_cmp(&b.0));
-        let (inside, above) = cusps.split_at(cusps.partition_point(|c| c.0 <= t_dew));
-        // A narrow two-phase region is solved on β, not searched on T.
-        let inside = if t_dew - t_bub > WIDE_TWO_PHASE_K { inside } else { &[] };
-        let mut failed = false;
-        let mut mixture = |t: f64| match self.tp_into(t, p, scratch) {
-            Ok(()) => {
-                let (h, slope) = self.enthalpy_and_slope(scratch);
-                (h - target, slope)
-            }
-            Err(_) => {
-                failed = true;
-                (f64::NAN, f64::NAN)
-            }
-        };
-        let mut vapour = |t: f64| {
-            let h = self.phase_enthalpy(Phase::Vapour, z, t, p_pa) - target;
-            (h, self.phase_slope(Phase::Vapour, z, t, p_pa))
-        };
-        // The first critical temperature where the enthalpy falls below the target.
-        let dip = inside
-            .iter()
-            .find(|c| mixture(c.0).0 < 0.0)
-            .or_else(|| above.iter().find(|c| vapour(c.0).0 < 0.0))
-            .copied();
-        let (tc, index) = dip?;
-        let mut outlets = Vec::new();
-        if !inside.is_empty() {
-            let cuts: Vec<f64> = inside.iter().map(|c| c.0).collect();
-            crossings(&mut mixture, t_bub, t_dew, &cuts, &mut outlets);
-        }
-        let cuts: Vec<f64> = above.iter().map(|c| c.0).collect();
-        crossings(&mut vapour, t_dew, SEARCH_MAX_TEMPERATURE_K, &cuts, &mut outlets);
-        if failed {
-            return None;
-        }
-        let others: Vec<f64> = outlets.into_iter().filter(|t| (t - t_out).abs() > 1e-6).collect();
-        if others.is_empty() {
-            return None;
-        }
-        Some(Warning::OutletNotUnique {
-            component: self.components()[index].name().to_string(),
-            critical_temperature_k: tc,
-            outlet_temperature_k: t_out,
-            other_outlet_temperatures_k: others,
-        })
-    }
-
     /// Solves on temperature between the bubble and dew points, Newton with the analytic
     /// dH/dT inside the bracket: used where the two-phase region spans more than
     /// [`WIDE_TWO_PHASE_K`], so that temperature pins the vapour fraction down well. Each
@@ -813,6 +936,20 @@ impl<'a> Calc<'a> {
     }
 }
 
+/// The spread of the duties along paths (a), (b) and (c).
+fn spread_of([a, b, c]: [f64; 3]) -> PathSpread {
+    let max = a.max(b).max(c);
+    let min = a.min(b).min(c);
+    let scale = a.abs().max(b.abs()).max(c.abs());
+    PathSpread {
+        boiling_point_w: a,
+        stream_temperature_w: b,
+        reference_temperature_w: c,
+        spread_w: max - min,
+        relative: if scale > 0.0 { (max - min) / scale } else { 0.0 },
+    }
+}
+
 /// Brent's tolerance for the vapour fraction in the duty-specified flash.
 struct BrentTolerance;
 
@@ -825,51 +962,5 @@ impl roots::Convergency<f64> for BrentTolerance {
     }
     fn is_iteration_limit_reached(&mut self, iter: usize) -> bool {
         iter >= 200
-    }
-}
-
-/// Adds to `out` the temperatures in (`lo`, `hi`) where `f` (value and slope in T) crosses
-/// zero, for an `f` that between consecutive `cusps` (ascending, inside the interval) rises
-/// to one peak and falls into the next cusp: each piece's peak is found by bisection on the
-/// sign of the slope (just below a cusp the slope is unbounded below), and each rise and
-/// fall through zero is solved by bracketed Newton. A NaN value finds nothing.
-fn crossings(f: &mut impl FnMut(f64) -> (f64, f64), lo: f64, hi: f64, cusps: &[f64], out: &mut Vec<f64>) {
-    const TOLERANCE_K: f64 = 1e-10;
-    let mut a = lo;
-    for &b in cusps.iter().chain([&hi]) {
-        let top = if b == hi { b } else { b * (1.0 - 1e-12) };
-        let peak = if f(top).1 >= 0.0 {
-            top
-        } else if f(a).1 <= 0.0 {
-            a
-        } else {
-            let (mut l, mut h) = (a, top);
-            while h - l > 1e-9 * h {
-                let mid = 0.5 * (l + h);
-                if f(mid).1 > 0.0 { l = mid } else { h = mid }
-            }
-            l
-        };
-        if f(peak).0 > 0.0 {
-            if f(a).0 < 0.0 {
-                out.push(bracketed_newton(&mut *f, a, peak, 0.5 * (a + peak), TOLERANCE_K).x);
-            }
-            if f(b).0 < 0.0 {
-                out.push(
-                    bracketed_newton(
-                        |t| {
-                            let (v, d) = f(t);
-                            (-v, -d)
-                        },
-                        peak,
-                        b,
-                        0.5 * (peak + b),
-                        TOLERANCE_K,
-                    )
-                    .x,
-                );
-            }
-        }
-        a = b;
     }
 }

@@ -1,7 +1,12 @@
 //! [`DutyCalculator`]: heater duties and duty-specified flashes for hot loops.
 
 use super::calc::{Calc, Solved};
-use super::{DutyOptions, EnergyError, Stream, StreamState};
+use super::ideal::EnthalpyModel;
+use super::options::DutyOptions;
+use super::phase_enthalpy::PhaseEnthalpyModel;
+use super::result::EnergyError;
+use super::stream::{Stream, StreamState};
+use crate::equilibrium::{KValueModel, Raoult};
 use crate::rachford_rice::Phase;
 use crate::units::{Power, Pressure};
 use serde::Serialize;
@@ -56,16 +61,21 @@ use std::borrow::Cow;
 ///     last = s.duty_w;
 /// }
 /// ```
+///
+/// Any K-value and phase-enthalpy models plug in through
+/// [`with_models`](Self::with_models); the defaults are Raoult's law and the
+/// [`EnthalpyModel`] of the [`DutyOptions`]. (A composition-dependent K-value model
+/// allocates in its composition loop and in dQ/dT.)
 #[derive(Clone)]
-pub struct DutyCalculator {
-    calc: Calc<'static>,
+pub struct DutyCalculator<K = Raoult, H = EnthalpyModel> {
+    calc: Calc<'static, K, H>,
     inlet: Solved,
     outlet: Solved,
     /// Whether the buffers hold the states of a call that succeeded.
     valid: bool,
 }
 
-impl std::fmt::Debug for DutyCalculator {
+impl<K: KValueModel, H: PhaseEnthalpyModel> std::fmt::Debug for DutyCalculator<K, H> {
     fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
         let names: Vec<&str> = self.stream().components().iter().map(|c| c.name()).collect();
         f.debug_struct("DutyCalculator")
@@ -164,14 +174,51 @@ impl DutyCalculator {
     /// assert!(matches!(e, EnergyError::Unit(_)) && e.to_string().contains("reference.temperature_k"));
     /// ```
     pub fn new(stream: &Stream, options: DutyOptions) -> Result<Self, EnergyError> {
-        let calc = Calc::new(Cow::Owned(stream.clone()), options)?;
+        Ok(Self::from_calc(Calc::new(Cow::Owned(stream.clone()), options)?))
+    }
+}
+
+impl<K: KValueModel, H: PhaseEnthalpyModel> DutyCalculator<K, H> {
+    fn from_calc(calc: Calc<'static, K, H>) -> Self {
         let n = calc.component_count();
-        Ok(Self {
+        Self {
             calc,
             inlet: Solved::new(n),
             outlet: Solved::new(n),
             valid: false,
-        })
+        }
+    }
+
+    /// A calculator for `stream` with any K-value model and phase-enthalpy model (owned;
+    /// pass references to share them), each with as many components as the stream. The
+    /// numbers are those of [`heater_duty_with`](super::heater_duty_with) and
+    /// [`outlet_for_duty_with`](super::outlet_for_duty_with).
+    ///
+    /// # Errors
+    /// [`EnergyError::Flash`] with
+    /// [`FlashError::ComponentCount`](crate::equilibrium::FlashError::ComponentCount) where a
+    /// model's component count is not the stream's; [`EnergyError::Unit`] for an ideal base
+    /// whose reference temperature is not finite and positive.
+    ///
+    /// ```
+    /// use flashduty::energy::{DutyCalculator, DutyOptions, EnthalpyModel, Stream, StreamState};
+    /// use flashduty::equilibrium::Raoult;
+    /// use flashduty::units::{MolarFlow, Pressure, Temperature};
+    /// let stream = Stream::from_names(&["benzene", "toluene"], &[0.5, 0.5], MolarFlow::new("flow", 1.0).unwrap()).unwrap();
+    /// let k = Raoult::new(stream.components().to_vec());
+    /// let h = EnthalpyModel::from_options(stream.components().to_vec(), DutyOptions::default());
+    /// let mut calc = DutyCalculator::with_models(&stream, &k, &h).unwrap();
+    /// let p = Pressure::parse("P", "1 atm").unwrap();
+    /// let at = |t: f64| StreamState::TemperaturePressure { temperature: Temperature::new("T", t).unwrap(), pressure: p };
+    /// let mut default = DutyCalculator::new(&stream, DutyOptions::default()).unwrap();
+    /// assert_eq!(calc.duty(at(300.0), at(400.0)).unwrap(), default.duty(at(300.0), at(400.0)).unwrap());
+    /// ```
+    pub fn with_models(stream: &Stream, k_model: K, enthalpy: H) -> Result<Self, EnergyError> {
+        Ok(Self::from_calc(Calc::with_models(
+            Cow::Owned(stream.clone()),
+            k_model,
+            enthalpy,
+        )?))
     }
 
     /// The stream.

@@ -94,6 +94,80 @@ pub trait KValueModel {
     fn temperature_hint(&self, _p_pa: f64) -> Option<(f64, f64)> {
         None
     }
+
+    /// The composition derivatives of ln K at `t_k`, `p_pa`, `liquid`, `vapour`, row-major
+    /// n × n: `dln_k_dx[i * n + j]` = ∂ln Kᵢ/∂xⱼ and `dln_k_dy[i * n + j]` = ∂ln Kᵢ/∂yⱼ, each
+    /// mole fraction taken as an independent variable. Only composition-dependent models
+    /// are asked (for dβ/dT, dβ/dP and dQ/dT of a two-phase state).
+    ///
+    /// Default: central differences of [`k_values`](Self::k_values) with a step of 1e-6
+    /// (a three-point one-sided difference for a mole fraction below the step), which is
+    /// accurate to about 1e-9 relative for smooth models. A model with analytic
+    /// derivatives overrides it.
+    ///
+    /// ```
+    /// use flashduty::equilibrium::{GivenK, KValueModel};
+    /// let (mut dx, mut dy) = (vec![1.0; 4], vec![1.0; 4]);
+    /// GivenK::new(vec![2.0, 0.5]).composition_derivatives(300.0, 1e5, &[0.5, 0.5], &[0.8, 0.2], &mut dx, &mut dy);
+    /// assert_eq!((dx, dy), (vec![0.0; 4], vec![0.0; 4]));
+    /// ```
+    fn composition_derivatives(
+        &self,
+        t_k: f64,
+        p_pa: f64,
+        liquid: &[f64],
+        vapour: &[f64],
+        dln_k_dx: &mut [f64],
+        dln_k_dy: &mut [f64],
+    ) {
+        let n = self.component_count();
+        dln_k_dx.iter_mut().for_each(|d| *d = 0.0);
+        dln_k_dy.iter_mut().for_each(|d| *d = 0.0);
+        if !self.is_composition_dependent() || liquid.len() != n || vapour.len() != n {
+            return;
+        }
+        const STEP: f64 = 1e-6;
+        let mut kv = KValues::new(n);
+        let mut ln_k = |x: &[f64], y: &[f64], out: &mut Vec<f64>| {
+            self.k_values(t_k, p_pa, x, y, &mut kv);
+            out.clear();
+            out.extend(kv.k.iter().map(|k| k.ln()));
+        };
+        let (mut x, mut y) = (liquid.to_vec(), vapour.to_vec());
+        let (mut a, mut b, mut c) = (Vec::new(), Vec::new(), Vec::new());
+        for (which, out) in [(0, &mut *dln_k_dx), (1, &mut *dln_k_dy)] {
+            for j in 0..n {
+                let v0 = if which == 0 { x[j] } else { y[j] };
+                let mut at = |v: f64, out: &mut Vec<f64>| {
+                    if which == 0 {
+                        x[j] = v;
+                    } else {
+                        y[j] = v;
+                    }
+                    ln_k(&x, &y, out);
+                };
+                if v0 >= STEP {
+                    at(v0 + STEP, &mut a);
+                    at(v0 - STEP, &mut b);
+                    for i in 0..n {
+                        out[i * n + j] = (a[i] - b[i]) / (2.0 * STEP);
+                    }
+                } else {
+                    at(v0, &mut a);
+                    at(v0 + STEP, &mut b);
+                    at(v0 + 2.0 * STEP, &mut c);
+                    for i in 0..n {
+                        out[i * n + j] = (-3.0 * a[i] + 4.0 * b[i] - c[i]) / (2.0 * STEP);
+                    }
+                }
+                if which == 0 {
+                    x[j] = v0;
+                } else {
+                    y[j] = v0;
+                }
+            }
+        }
+    }
 }
 
 impl<M: KValueModel + ?Sized> KValueModel for &M {
@@ -114,6 +188,17 @@ impl<M: KValueModel + ?Sized> KValueModel for &M {
     }
     fn temperature_hint(&self, p_pa: f64) -> Option<(f64, f64)> {
         (**self).temperature_hint(p_pa)
+    }
+    fn composition_derivatives(
+        &self,
+        t_k: f64,
+        p_pa: f64,
+        liquid: &[f64],
+        vapour: &[f64],
+        dln_k_dx: &mut [f64],
+        dln_k_dy: &mut [f64],
+    ) {
+        (**self).composition_derivatives(t_k, p_pa, liquid, vapour, dln_k_dx, dln_k_dy)
     }
 }
 

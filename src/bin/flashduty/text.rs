@@ -149,10 +149,7 @@ pub fn caution(out: &mut String) {
 
 /// How a report names the vapour model.
 pub fn vapour_model_words(m: VapourModel) -> &'static str {
-    match m {
-        VapourModel::IdealGas => "ideal gas",
-        VapourModel::SecondVirial => "second virial (Pitzer–Curl B; real-gas residual enthalpy)",
-    }
+    m.description()
 }
 
 fn phase_word(p: Phase) -> &'static str {

@@ -1,0 +1,142 @@
+//! Whether a duty-specified outlet is the only state with its enthalpy: along the
+//! stream-temperature path the enthalpy dips at each component's critical temperature, so
+//! one duty can have several outlets.
+
+use super::calc::{Calc, Solved, WIDE_TWO_PHASE_K};
+use super::phase_enthalpy::PhaseEnthalpyModel;
+use super::reference::VaporisationPath;
+use crate::equilibrium::{KValueModel, SEARCH_MAX_TEMPERATURE_K};
+use crate::rachford_rice::Phase;
+use crate::solve::bracketed_newton;
+use crate::units::Pressure;
+use crate::warnings::Warning;
+
+impl<K: KValueModel, H: PhaseEnthalpyModel> Calc<'_, K, H> {
+    /// A [`Warning::OutletNotUnique`] where the duty-specified outlet at `t_out` (enthalpy
+    /// `target` J/mol, pressure `p`) is not the only state with that enthalpy; `scratch`
+    /// holds the flashes of the search.
+    ///
+    /// Only the stream-temperature path can have several: its vapour enthalpy carries the
+    /// latent heat at T, which falls to zero at Tc with an unbounded slope, so a vapour's
+    /// enthalpy has a cusp-shaped minimum at every component's Tc, and so has a two-phase
+    /// mixture's where that Tc lies between the bubble and dew points. (Along the other
+    /// paths the latent heat is taken at a fixed temperature.) The two-phase region
+    /// (`t_bub` to `t_dew`, wider than [`WIDE_TWO_PHASE_K`]) and the vapour branch above
+    /// `t_dew` are searched, each cut at the critical temperatures inside it
+    /// ([`crossings`]); the liquid's enthalpy rises with T. Nothing is searched unless the
+    /// enthalpy at some Tc is below the target.
+    pub fn outlet_uniqueness(
+        &self,
+        target: f64,
+        t_out: f64,
+        (t_bub, t_dew): (f64, f64),
+        p: Pressure,
+        scratch: &mut Solved,
+    ) -> Option<Warning> {
+        let base = self.base()?;
+        if base.path() != VaporisationPath::StreamTemperature {
+            return None;
+        }
+        let (z, p_pa) = (self.z(), p.pascal());
+        let mut cusps: Vec<(f64, usize)> = base
+            .components()
+            .iter()
+            .enumerate()
+            .filter(|&(i, _)| z[i] > 0.0)
+            .map(|(i, c)| (c.critical_temperature_k(), i))
+            .filter(|&(tc, _)| tc > t_bub && tc < SEARCH_MAX_TEMPERATURE_K)
+            .collect();
+        cusps.sort_by(|a, b| a.0.total_cmp(&b.0));
+        let (inside, above) = cusps.split_at(cusps.partition_point(|c| c.0 <= t_dew));
+        // A narrow two-phase region is solved on β, not searched on T.
+        let inside = if t_dew - t_bub > WIDE_TWO_PHASE_K { inside } else { &[] };
+        let mut failed = false;
+        let mut mixture = |t: f64| match self.tp_into(t, p, scratch) {
+            Ok(()) => {
+                let (h, slope) = self.enthalpy_and_slope(scratch);
+                (h - target, slope)
+            }
+            Err(_) => {
+                failed = true;
+                (f64::NAN, f64::NAN)
+            }
+        };
+        let mut vapour = |t: f64| {
+            let h = self.phase_enthalpy(Phase::Vapour, z, t, p_pa) - target;
+            (h, self.phase_slope(Phase::Vapour, z, t, p_pa))
+        };
+        // The first critical temperature where the enthalpy falls below the target.
+        let dip = inside
+            .iter()
+            .find(|c| mixture(c.0).0 < 0.0)
+            .or_else(|| above.iter().find(|c| vapour(c.0).0 < 0.0))
+            .copied();
+        let (tc, index) = dip?;
+        let mut outlets = Vec::new();
+        if !inside.is_empty() {
+            let cuts: Vec<f64> = inside.iter().map(|c| c.0).collect();
+            crossings(&mut mixture, t_bub, t_dew, &cuts, &mut outlets);
+        }
+        let cuts: Vec<f64> = above.iter().map(|c| c.0).collect();
+        crossings(&mut vapour, t_dew, SEARCH_MAX_TEMPERATURE_K, &cuts, &mut outlets);
+        if failed {
+            return None;
+        }
+        let others: Vec<f64> = outlets.into_iter().filter(|t| (t - t_out).abs() > 1e-6).collect();
+        if others.is_empty() {
+            return None;
+        }
+        Some(Warning::OutletNotUnique {
+            component: base.components()[index].name().to_string(),
+            critical_temperature_k: tc,
+            outlet_temperature_k: t_out,
+            other_outlet_temperatures_k: others,
+        })
+    }
+}
+
+/// Adds to `out` the temperatures in (`lo`, `hi`) where `f` (value and slope in T) crosses
+/// zero, for an `f` that between consecutive `cusps` (ascending, inside the interval) rises
+/// to one peak and falls into the next cusp: each piece's peak is found by bisection on the
+/// sign of the slope (just below a cusp the slope is unbounded below), and each rise and
+/// fall through zero is solved by bracketed Newton. A NaN value finds nothing.
+fn crossings(f: &mut impl FnMut(f64) -> (f64, f64), lo: f64, hi: f64, cusps: &[f64], out: &mut Vec<f64>) {
+    const TOLERANCE_K: f64 = 1e-10;
+    let mut a = lo;
+    for &b in cusps.iter().chain([&hi]) {
+        let top = if b == hi { b } else { b * (1.0 - 1e-12) };
+        let peak = if f(top).1 >= 0.0 {
+            top
+        } else if f(a).1 <= 0.0 {
+            a
+        } else {
+            let (mut l, mut h) = (a, top);
+            while h - l > 1e-9 * h {
+                let mid = 0.5 * (l + h);
+                if f(mid).1 > 0.0 { l = mid } else { h = mid }
+            }
+            l
+        };
+        if f(peak).0 > 0.0 {
+            if f(a).0 < 0.0 {
+                out.push(bracketed_newton(&mut *f, a, peak, 0.5 * (a + peak), TOLERANCE_K).x);
+            }
+            if f(b).0 < 0.0 {
+                out.push(
+                    bracketed_newton(
+                        |t| {
+                            let (v, d) = f(t);
+                            (-v, -d)
+                        },
+                        peak,
+                        b,
+                        0.5 * (peak + b),
+                        TOLERANCE_K,
+                    )
+                    .x,
+                );
+            }
+        }
+        a = b;
+    }
+}
