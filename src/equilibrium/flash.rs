@@ -153,8 +153,21 @@ pub(crate) fn flash_into<M: KValueModel + ?Sized>(
         if !model.is_composition_dependent() {
             return Ok(solver.done(state));
         }
-        let new_liquid = normalised(if state.has_liquid { &solver.buffers.x } else { z });
-        let new_vapour = normalised(if state.has_vapour { &solver.buffers.y } else { z });
+        // A single-phase state still leaves the incipient phase in the buffers: its
+        // composition, not z, is where the next round evaluates the missing phase's K, so
+        // that a feed just inside the two-phase region is not taken for single-phase
+        // because K was frozen at the wrong composition.
+        let usable = |v: &[f64]| v.iter().all(|x| x.is_finite() && *x >= 0.0) && v.iter().sum::<f64>() > 0.0;
+        let new_liquid = normalised(if usable(&solver.buffers.x) {
+            &solver.buffers.x
+        } else {
+            z
+        });
+        let new_vapour = normalised(if usable(&solver.buffers.y) {
+            &solver.buffers.y
+        } else {
+            z
+        });
         let change = max_change(&solver.liquid, &new_liquid).max(max_change(&solver.vapour, &new_vapour));
         solver.liquid = new_liquid;
         solver.vapour = new_vapour;
