@@ -123,6 +123,7 @@ impl DataKind {
 /// An error in the data or in a request; each names the data row (1-based, counting data
 /// rows as a user does, without header or comment lines) or the field, and the value.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
+#[non_exhaustive]
 pub enum FitError {
     /// Fewer points than the model has constants.
     #[error("{model} has {constants} constants and needs at least {constants} data points; {points} given")]
@@ -304,6 +305,40 @@ pub enum FitError {
     /// The library's own checks rejected the component.
     #[error(transparent)]
     Component(#[from] ComponentError),
+}
+
+impl FitError {
+    /// A short, stable, machine-readable name of the error (kebab-case), the same in the
+    /// command-line tool's JSON errors and every binding. Wrapped errors give their own.
+    ///
+    /// ```
+    /// use flashduty::fit::FitError;
+    /// assert_eq!(FitError::TooFewPoints { model: "Antoine", points: 1, constants: 3 }.kind(), "too-few-points");
+    /// ```
+    pub fn kind(&self) -> &'static str {
+        match self {
+            FitError::TooFewPoints { .. } => "too-few-points",
+            FitError::NotFinite { .. } => "not-finite",
+            FitError::NonPositiveTemperature { .. } => "non-positive-temperature",
+            FitError::NonPositivePressure { .. } => "non-positive-pressure",
+            FitError::NonPositiveHeatCapacity { .. } => "non-positive-heat-capacity",
+            FitError::DuplicateTemperature { .. } => "duplicate-temperature",
+            FitError::InvalidDegree { .. } => "invalid-degree",
+            FitError::InvalidExponent { .. } => "invalid-exponent",
+            FitError::Degenerate { .. } => "degenerate",
+            FitError::Solver { .. } => "solver",
+            FitError::CsvNoHeader { .. } => "csv-no-header",
+            FitError::CsvMissingColumn { .. } => "csv-missing-column",
+            FitError::CsvUnit { .. } => "csv-unit",
+            FitError::CsvHeatCapacityUnit { .. } => "csv-heat-capacity-unit",
+            FitError::CsvFieldCount { .. } => "csv-field-count",
+            FitError::CsvNumber { .. } => "csv-number",
+            FitError::MissingField { .. } => "missing-field",
+            FitError::InvalidValue { .. } => "invalid-value",
+            FitError::ChecksFailed { .. } => "checks-failed",
+            FitError::Component(e) => e.kind(),
+        }
+    }
 }
 
 fn join_warnings(w: &[FitWarning]) -> String {

@@ -38,6 +38,18 @@ pub struct UnknownComponent {
     pub suggestions: Vec<String>,
 }
 
+impl UnknownComponent {
+    /// The error's stable machine-readable name: `"unknown-component"`.
+    ///
+    /// ```
+    /// use flashduty::library::Library;
+    /// assert_eq!(Library::builtin().get("unobtanium").unwrap_err().kind(), "unknown-component");
+    /// ```
+    pub fn kind(&self) -> &'static str {
+        "unknown-component"
+    }
+}
+
 fn suggestion_text(s: &[String]) -> String {
     if s.is_empty() {
         String::new()

@@ -128,6 +128,7 @@ impl std::fmt::Display for Phase {
 
 /// A bad input to the solver, naming the field and value.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
+#[non_exhaustive]
 pub enum RachfordRiceError {
     /// No components.
     #[error("z: the feed has no components")]
@@ -172,6 +173,26 @@ pub enum RachfordRiceError {
         /// The value.
         value: f64,
     },
+}
+
+impl RachfordRiceError {
+    /// A short, stable, machine-readable name of the error (kebab-case), the same in the
+    /// command-line tool's JSON errors and every binding. Wrapped errors give their own.
+    ///
+    /// ```
+    /// use flashduty::rachford_rice::rachford_rice;
+    /// assert_eq!(rachford_rice(&[0.5, 0.6], &[2.0, 0.5]).unwrap_err().kind(), "mole-fraction-sum");
+    /// ```
+    pub fn kind(&self) -> &'static str {
+        match self {
+            RachfordRiceError::Empty { .. } => "empty",
+            RachfordRiceError::LengthMismatch { .. } => "length-mismatch",
+            RachfordRiceError::NotFinite { .. } => "not-finite",
+            RachfordRiceError::NegativeMoleFraction { .. } => "negative-mole-fraction",
+            RachfordRiceError::MoleFractionSum { .. } => "mole-fraction-sum",
+            RachfordRiceError::NegativeKValue { .. } => "negative-k-value",
+        }
+    }
 }
 
 /// Solver options.
@@ -1515,6 +1536,7 @@ impl BatchOutput {
 /// assert_eq!(err.to_string(), "K: shape 1×3, expected 1×2 (the shape of z)");
 /// ```
 #[derive(Debug, Clone, PartialEq, Eq, thiserror::Error)]
+#[non_exhaustive]
 pub enum BatchShapeError {
     /// K, `out.x` or `out.y` is not shaped like z.
     #[error("{field}: shape {found_rows}×{found_columns}, expected {rows}×{columns} (the shape of z)")]
@@ -1540,6 +1562,22 @@ pub enum BatchShapeError {
         /// Length found.
         found: usize,
     },
+}
+
+impl BatchShapeError {
+    /// A short, stable, machine-readable name of the error (kebab-case), the same in the
+    /// command-line tool's JSON errors and every binding. Wrapped errors give their own.
+    ///
+    /// ```
+    /// use flashduty::rachford_rice::BatchShapeError;
+    /// assert_eq!(BatchShapeError::Rows { field: "out.phase", rows: 2, found: 3 }.kind(), "rows");
+    /// ```
+    pub fn kind(&self) -> &'static str {
+        match self {
+            BatchShapeError::Matrix { .. } => "matrix",
+            BatchShapeError::Rows { .. } => "rows",
+        }
+    }
 }
 
 /// Solves the Rachford–Rice equation for every row of `z` (feeds) with the K-values in the

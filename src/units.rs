@@ -22,6 +22,7 @@ use std::fmt;
 
 /// An error in a quantity given by the caller. Each variant names the field and the value.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
+#[non_exhaustive]
 pub enum UnitError {
     /// The text does not start with a number.
     #[error("{field}: '{text}' is not a number (expected e.g. '{example}')")]
@@ -66,6 +67,24 @@ pub enum UnitError {
         /// What is wrong with it, e.g. "at or below absolute zero".
         why: &'static str,
     },
+}
+
+impl UnitError {
+    /// A short, stable, machine-readable name of the error (kebab-case), the same in the
+    /// command-line tool's JSON errors and every binding. Wrapped errors give their own.
+    ///
+    /// ```
+    /// use flashduty::units::Temperature;
+    /// assert_eq!(Temperature::parse("T", "65 degF").unwrap_err().kind(), "unknown-unit");
+    /// ```
+    pub fn kind(&self) -> &'static str {
+        match self {
+            UnitError::NotANumber { .. } => "not-a-number",
+            UnitError::UnknownUnit { .. } => "unknown-unit",
+            UnitError::NotFinite { .. } => "not-finite",
+            UnitError::OutOfRange { .. } => "out-of-range",
+        }
+    }
 }
 
 /// The kinds of quantity this crate parses.

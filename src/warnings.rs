@@ -19,6 +19,7 @@ pub const RAOULT_PRESSURE_LIMIT_PA: f64 = 5e5;
 /// ```
 #[derive(Debug, Clone, PartialEq, Serialize)]
 #[serde(tag = "kind", rename_all = "kebab-case")]
+#[non_exhaustive]
 pub enum Warning {
     /// A correlation was evaluated outside the temperature range it was fitted over.
     CorrelationExtrapolated {

@@ -46,6 +46,26 @@ pub enum EnergyError {
     },
 }
 
+impl EnergyError {
+    /// A short, stable, machine-readable name of the error (kebab-case), the same in the
+    /// command-line tool's JSON errors and every binding. Wrapped errors give their own.
+    ///
+    /// ```
+    /// use flashduty::energy::EnergyError;
+    /// assert_eq!(EnergyError::TooFewPoints { value: 1 }.kind(), "too-few-points");
+    /// ```
+    pub fn kind(&self) -> &'static str {
+        match self {
+            EnergyError::Flash(e) => e.kind(),
+            EnergyError::Unit(e) => e.kind(),
+            EnergyError::UnknownComponent(e) => e.kind(),
+            EnergyError::BadFlow { .. } => "bad-flow",
+            EnergyError::TooFewPoints { .. } => "too-few-points",
+            EnergyError::DutyOutOfReach { .. } => "duty-out-of-reach",
+        }
+    }
+}
+
 impl From<RachfordRiceError> for EnergyError {
     fn from(e: RachfordRiceError) -> Self {
         EnergyError::Flash(FlashError::Feed(e))

@@ -148,6 +148,26 @@ pub enum FlashError {
     },
 }
 
+impl FlashError {
+    /// A short, stable, machine-readable name of the error (kebab-case), the same in the
+    /// command-line tool's JSON errors and every binding. Wrapped errors give their own.
+    ///
+    /// ```
+    /// use flashduty::equilibrium::FlashError;
+    /// assert_eq!(FlashError::NoDewPoint { component: "glycerol".into() }.kind(), "no-dew-point");
+    /// ```
+    pub fn kind(&self) -> &'static str {
+        match self {
+            FlashError::Feed(e) => e.kind(),
+            FlashError::ComponentCount { .. } => "component-count",
+            FlashError::VapourFractionOutOfRange { .. } => "vapour-fraction-out-of-range",
+            FlashError::NoDewPoint { .. } => "no-dew-point",
+            FlashError::NoSolution { .. } => "no-solution",
+            FlashError::NotConverged { .. } => "not-converged",
+        }
+    }
+}
+
 impl FlashSpec {
     pub(crate) fn name(&self) -> &'static str {
         match self {

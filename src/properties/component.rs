@@ -10,6 +10,7 @@ use serde::{Deserialize, Serialize};
 
 /// An error in a component's data, naming the component and the field.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
+#[non_exhaustive]
 pub enum ComponentError {
     /// A value is missing, not finite, or outside its physical range.
     #[error("component '{component}': field '{field}' = {value}: {why}")]
@@ -53,6 +54,24 @@ pub enum ComponentError {
         /// The component that already has it.
         other: String,
     },
+}
+
+impl ComponentError {
+    /// A short, stable, machine-readable name of the error (kebab-case), the same in the
+    /// command-line tool's JSON errors and every binding. Wrapped errors give their own.
+    ///
+    /// ```
+    /// use flashduty::properties::ComponentError;
+    /// assert_eq!(ComponentError::UnknownSource { component: "x".into(), key: "y".into() }.kind(), "unknown-source");
+    /// ```
+    pub fn kind(&self) -> &'static str {
+        match self {
+            ComponentError::InvalidValue { .. } => "invalid-value",
+            ComponentError::UnknownSource { .. } => "unknown-source",
+            ComponentError::Parse { .. } => "parse",
+            ComponentError::Duplicate { .. } => "duplicate",
+        }
+    }
 }
 
 /// Where a value came from: a key into the file's bibliography, and whether it was typed
