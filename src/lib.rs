@@ -12,6 +12,7 @@
 #![deny(missing_docs)]
 #![deny(unsafe_code)]
 
+pub mod case;
 pub mod energy;
 pub mod equilibrium;
 pub mod fit;

@@ -75,7 +75,7 @@ impl UnitError {
     ///
     /// ```
     /// use flashduty::units::Temperature;
-    /// assert_eq!(Temperature::parse("T", "65 degF").unwrap_err().kind(), "unknown-unit");
+    /// assert_eq!(Temperature::parse("T", "65 furlongs").unwrap_err().kind(), "unknown-unit");
     /// ```
     pub fn kind(&self) -> &'static str {
         match self {

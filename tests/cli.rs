@@ -1630,3 +1630,45 @@ fn vapour_model_column_in_a_batch() {
         rows[2]
     );
 }
+
+/// The keys `--help` and docs/CLI.md list are those of the library's one case schema
+/// (`flashduty::case::TOP_KEYS`), in both directions for the help.
+#[test]
+fn help_and_contract_list_the_schema_keys() {
+    let out = bin().arg("--help").output().unwrap();
+    let help = String::from_utf8(out.stdout).unwrap();
+    let section: Vec<&str> = help
+        .lines()
+        .skip_while(|l| !l.starts_with("A case file is"))
+        .skip(1)
+        .take_while(|l| !l.starts_with("Unknown keys"))
+        .collect();
+    let mut listed: Vec<String> = Vec::new();
+    for line in &section {
+        let Some(head) = line.strip_prefix("  ") else { continue };
+        if head.starts_with(' ') {
+            continue;
+        }
+        let names = head.split("  ").next().unwrap_or("");
+        for name in names.split([',', '|']) {
+            listed.push(name.trim().to_string());
+        }
+    }
+    let schema: Vec<String> = flashduty::case::TOP_KEYS.iter().map(|k| k.to_string()).collect();
+    for key in &schema {
+        assert!(listed.contains(key), "--help does not list '{key}': {listed:?}");
+    }
+    for key in &listed {
+        assert!(
+            schema.contains(key),
+            "--help lists '{key}', which the schema does not have"
+        );
+    }
+    let contract = std::fs::read_to_string(repo("docs/CLI.md")).unwrap();
+    for key in &schema {
+        assert!(
+            contract.contains(&format!("`{key}`")),
+            "docs/CLI.md does not name `{key}`"
+        );
+    }
+}

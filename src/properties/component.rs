@@ -62,7 +62,7 @@ impl ComponentError {
     ///
     /// ```
     /// use flashduty::properties::ComponentError;
-    /// assert_eq!(ComponentError::UnknownSource { component: "x".into(), key: "y".into() }.kind(), "unknown-source");
+    /// assert_eq!(ComponentError::UnknownSource { component: "x".into(), field: "tc".into(), source_key: "y".into() }.kind(), "unknown-source");
     /// ```
     pub fn kind(&self) -> &'static str {
         match self {

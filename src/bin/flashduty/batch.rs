@@ -105,8 +105,8 @@ fn run_row(
         );
     }
     let out = sheet::case_value(&sheet.columns, cells)
-        .and_then(|v| parse_case(&v, command))
-        .and_then(|case| compute::run(lib, command, &case, None))
+        .and_then(|v| Ok(parse_case(&v, command)?))
+        .and_then(|case| Ok(compute::run(lib, command, &case, None)?))
         .map(|o| o.to_json())
         .map_err(|e| e.to_string());
     (id, out)

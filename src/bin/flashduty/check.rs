@@ -313,8 +313,8 @@ fn run_row(lib: &Library, sheet: &Sheet, row: &sheet::Row) -> RowResult {
     };
     result.command = Some(command.name().to_string());
     let output = sheet::case_value(&sheet.columns, cells)
-        .and_then(|v| parse_case(&v, command))
-        .and_then(|case| compute::run(lib, command, &case, None))
+        .and_then(|v| Ok(parse_case(&v, command)?))
+        .and_then(|case| Ok(compute::run(lib, command, &case, None)?))
         .map(|o| o.to_json());
     let output = match output {
         Ok(o) => o,

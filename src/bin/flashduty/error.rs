@@ -50,6 +50,12 @@ macro_rules! from_library_error {
     };
 }
 
+impl From<flashduty::case::CaseError> for CliError {
+    fn from(e: flashduty::case::CaseError) -> Self {
+        CliError::new(e.message())
+    }
+}
+
 from_library_error!(
     flashduty::units::UnitError,
     flashduty::equilibrium::FlashError,

@@ -409,7 +409,7 @@ fn build(value: &Value, base: &Path, args: &FitArgs, units: AntoineForm, json_ou
         .ok_or_else(|| CliError::new(format!("expected an object of keys and values, got {}", kind_of(value))))?;
     keys(m, "", SHEET_KEYS)?;
     let s = |k: &str| -> CliResult<String> { text_of(k, get(m, "", k)?) };
-    let n = |k: &str| -> CliResult<f64> { number(k, get(m, "", k)?) };
+    let n = |k: &str| -> CliResult<f64> { Ok(number(k, get(m, "", k)?)?) };
     let mut b = UserComponentBuilder::new(s("name")?, s("cas")?, s("formula")?, s("citation")?)
         .molar_mass_g_per_mol(n("molar_mass_g_per_mol")?)
         .critical_temperature_k(temperature("critical_temperature", get(m, "", "critical_temperature")?)?.kelvin())
