@@ -53,8 +53,8 @@ use serde_json::{Value, json};
 use std::collections::BTreeMap;
 use std::fmt;
 
-/// Molar gas constant, J/(mol·K) (CODATA 2018; exact since the 2019 SI redefinition).
-pub const GAS_CONSTANT: f64 = 8.314_462_618;
+/// Molar gas constant, J/(mol·K): [`crate::units::GAS_CONSTANT`], re-exported here.
+pub use crate::units::GAS_CONSTANT;
 
 /// Largest accepted |Psat(Tb)/101.325 kPa − 1| of a user component (common practice; the
 /// tolerance this project applies to its own library).

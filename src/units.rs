@@ -138,6 +138,9 @@ pub const POUND_KG: f64 = 0.453_592_37;
 pub const PSI_PA: f64 = POUND_KG * 9.806_65 / (0.0254 * 0.0254);
 /// Standard atmosphere in Pa (exact; NIST SP 811 B.8).
 pub const ATM_PA: f64 = 101_325.0;
+/// Molar gas constant, J/(mol·K) (CODATA 2018; exact since the 2019 SI redefinition): the
+/// one definition the crate uses.
+pub const GAS_CONSTANT: f64 = 8.314_462_618;
 /// Conventional millimetre of mercury in Pa (NIST SP 811 B.8).
 pub const MMHG_PA: f64 = 133.322_387_415;
 /// International Table British thermal unit in J (exact; NIST SP 811 B.8).

@@ -4,8 +4,7 @@
 
 use super::Component;
 
-/// Molar gas constant, J/(mol·K) (CODATA 2018; exact since the 2019 SI redefinition).
-const GAS_CONSTANT: f64 = 8.314_462_618;
+use crate::units::GAS_CONSTANT;
 
 /// Abbott's fit of the simple-fluid term, B⁰ = 0.083 − 0.422/Tr^1.6, and of the correction
 /// term, B¹ = 0.139 − 0.172/Tr^4.2: (constant, coefficient, exponent). From Smith, Van Ness
