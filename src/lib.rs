@@ -7,8 +7,19 @@
 //! and conditions; equipment design and operation follow the applicable local codes and the
 //! judgement of a qualified, licensed engineer.
 //!
-//! The layers, from the bottom up: [`units`] (quantities), [`properties`] (pure-component
-//! correlations), [`library`] (the cited component data).
+//! The modules, from the bottom layer up:
+//!
+//! - [`units`]: quantities with their units (`"65 degC"`, `"3.6 kmol/h"`), SI inside.
+//! - [`properties`]: pure-component correlations (vapour pressure, heat capacity, latent
+//!   heat, second virial), each with its validity range.
+//! - [`library`]: the cited component library and user component files.
+//! - [`fit`]: correlations fitted to a user's data, and a checked user component.
+//! - [`rachford_rice`]: the Rachford–Rice solver on z and K alone.
+//! - [`equilibrium`]: K-value models behind one trait, flashes, bubble and dew points.
+//! - [`energy`]: phase-enthalpy models behind one trait, heater duty, duty-specified flash,
+//!   curves.
+//! - [`case`]: the case schema every front end shares, from keys to outcome JSON.
+//! - [`warnings`]: the machine-readable warnings every result carries.
 #![deny(missing_docs)]
 #![deny(unsafe_code)]
 

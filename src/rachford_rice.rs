@@ -185,7 +185,7 @@ impl RachfordRiceError {
     /// ```
     pub fn kind(&self) -> &'static str {
         match self {
-            RachfordRiceError::Empty { .. } => "empty",
+            RachfordRiceError::Empty => "empty",
             RachfordRiceError::LengthMismatch { .. } => "length-mismatch",
             RachfordRiceError::NotFinite { .. } => "not-finite",
             RachfordRiceError::NegativeMoleFraction { .. } => "negative-mole-fraction",

@@ -43,9 +43,9 @@ impl KValueModel for Margules {
         self.raoult.k_values(t, p, x, y, out);
         let (a, da) = self.a(t);
         let sq = [x[1] * x[1], x[0] * x[0]];
-        for i in 0..2 {
-            out.k[i] *= (a * sq[i]).exp();
-            out.dln_k_dt[i] += da * sq[i];
+        for (i, sq) in sq.into_iter().enumerate() {
+            out.k[i] *= (a * sq).exp();
+            out.dln_k_dt[i] += da * sq;
         }
     }
     fn is_composition_dependent(&self) -> bool {
