@@ -17,7 +17,7 @@ use std::borrow::Cow;
 /// The duty to take `stream` from `inlet` to `outlet`, with both phase splits and the
 /// enthalpy table.
 ///
-/// For many duties of one stream in a loop, [`DutyCalculator`] gives the same numbers
+/// For many duties of one stream in a loop, [`DutyCalculator`](super::DutyCalculator) gives the same numbers
 /// without the table, path spread and warnings, at a fraction of the cost.
 ///
 /// # Errors
@@ -111,7 +111,7 @@ fn duty_of<K: KValueModel, H: PhaseEnthalpyModel>(
 ///
 /// Each step of the temperature search is one K-value evaluation and one Rachford–Rice
 /// solve in reused buffers, with dH/dT from the same K-values; the full result is built
-/// once, at the end. [`DutyCalculator::outlet_for_duty`] runs the same search without it.
+/// once, at the end. [`DutyCalculator::outlet_for_duty`](super::DutyCalculator::outlet_for_duty) runs the same search without it.
 ///
 /// # Errors
 /// [`EnergyError::Flash`] and [`EnergyError::Unit`] as [`heater_duty`];

@@ -112,7 +112,7 @@ pub enum VapourModel {
     IdealGas,
     /// The ideal gas plus each component's residual enthalpy H^R = P (B − T dB/dT) from the
     /// virial equation truncated after the second coefficient, B from the Pitzer–Curl
-    /// correlation ([`PitzerCurlVirial`]). A mixture's residual is the mole-fraction-weighted
+    /// correlation ([`PitzerCurlVirial`](crate::properties::PitzerCurlVirial)). A mixture's residual is the mole-fraction-weighted
     /// sum of the pure ones: the linear mixing rule Bᵢⱼ = (Bᵢᵢ + Bⱼⱼ)/2, consistent with the
     /// ideal mixing of the rest of the model.
     ///

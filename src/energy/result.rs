@@ -92,7 +92,7 @@ pub struct EnthalpyRow {
     /// Its vapour sensible part (ideal gas), J/mol.
     pub vapour_sensible_j_per_mol: f64,
     /// Its departure from the ideal gas, J/mol (see
-    /// [`EnthalpySplit::vapour_departure_j_per_mol`]); zero under [`VapourModel::IdealGas`].
+    /// [`EnthalpySplit::vapour_departure_j_per_mol`](super::EnthalpySplit::vapour_departure_j_per_mol)); zero under [`VapourModel::IdealGas`](super::VapourModel::IdealGas).
     pub vapour_departure_j_per_mol: f64,
     /// What the phase-enthalpy model adds to the ideal-mixing enthalpy here (the
     /// component's partial molar enthalpy in its phase less the pure component's: an

@@ -7,10 +7,10 @@ use crate::units::{Pressure, Temperature};
 
 /// A reusable isothermal flash for hot loops: the K-values and phase compositions live in
 /// buffers owned by the flasher, so a flash allocates nothing. It gives the phase split
-/// only; for warnings, sensitivities and the other specifications use [`flash`].
+/// only; for warnings, sensitivities and the other specifications use [`flash`](super::flash).
 ///
 /// A composition-dependent model is refused here ([`FlashError::NotConverged`] is never
-/// returned by this type): use [`flash`], whose outer loop handles it.
+/// returned by this type): use [`flash`](super::flash), whose outer loop handles it.
 ///
 /// ```
 /// use flashduty::equilibrium::{Raoult, TpFlasher};
@@ -46,7 +46,7 @@ impl<'a, M: KValueModel + ?Sized> TpFlasher<'a, M> {
     /// A flasher for `model`, with buffers for its components.
     ///
     /// # Errors
-    /// [`FlashError::NoSolution`] for a composition-dependent model (use [`flash`]).
+    /// [`FlashError::NoSolution`] for a composition-dependent model (use [`flash`](super::flash)).
     pub fn new(model: &'a M) -> Result<Self, FlashError> {
         if model.is_composition_dependent() {
             return Err(FlashError::NoSolution {
