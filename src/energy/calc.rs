@@ -263,6 +263,13 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
         let Some(m) = self.ideal() else {
             return self.general_enthalpy(s);
         };
+        self.ideal_enthalpy(m, s)
+    }
+
+    /// Per mole of stream: the ideal-mixing model `m`'s enthalpy of the state, its
+    /// second-virial departures included.
+    #[inline]
+    fn ideal_enthalpy(&self, m: &EnthalpyModel, s: &Solved) -> f64 {
         let h = self.enthalpy_with(m.table(), m.components(), s);
         match m.table().virial(m.components()) {
             Some(v) => h + self.departure(v, s),
@@ -693,14 +700,7 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
         let added_w = if self.ideal().is_some() {
             None
         } else {
-            let base_enthalpy = |s: &Solved| {
-                let h = self.enthalpy_with(base.table(), components, s);
-                match base.table().virial(components) {
-                    Some(v) => h + self.departure(v, s),
-                    None => h,
-                }
-            };
-            Some(selected_duty_w - flow * (base_enthalpy(outlet) - base_enthalpy(inlet)))
+            Some(selected_duty_w - flow * (self.ideal_enthalpy(base, outlet) - self.ideal_enthalpy(base, inlet)))
         };
         let duty = |path| {
             others
