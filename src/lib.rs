@@ -24,6 +24,7 @@
 #![deny(unsafe_code)]
 
 pub mod case;
+mod difference;
 pub mod energy;
 pub mod equilibrium;
 pub mod fit;

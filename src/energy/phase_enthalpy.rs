@@ -2,6 +2,7 @@
 //! through which the energy layer takes any enthalpy model.
 
 use super::ideal::EnthalpyModel;
+use crate::difference::stencil;
 use crate::rachford_rice::Phase;
 
 /// A mixture-level phase-enthalpy model: the molar enthalpy of a liquid or vapour of given
@@ -60,23 +61,24 @@ pub trait PhaseEnthalpyModel {
     /// Default: h̄ᵢ = h + ∂h/∂xᵢ − Σₖ xₖ ∂h/∂xₖ, with each ∂h/∂xᵢ from a central difference of
     /// step 1e-6 (one-sided below it) of [`phase_enthalpy`](Self::phase_enthalpy).
     fn partial_molar_enthalpies(&self, phase: Phase, fractions: &[f64], t_k: f64, p_pa: f64, out: &mut [f64]) {
-        const STEP: f64 = 1e-6;
         let (h, _) = self.phase_enthalpy(phase, fractions, t_k, p_pa);
         let mut x = fractions.to_vec();
-        let at = |x: &mut Vec<f64>, j: usize, v: f64| {
-            let old = x[j];
-            x[j] = v;
-            let h = self.phase_enthalpy(phase, x, t_k, p_pa).0;
-            x[j] = old;
-            h
-        };
         for (j, o) in out.iter_mut().enumerate().take(fractions.len()) {
             let v = fractions[j];
-            *o = if v >= STEP {
-                (at(&mut x, j, v + STEP) - at(&mut x, j, v - STEP)) / (2.0 * STEP)
-            } else {
-                (-3.0 * h + 4.0 * at(&mut x, j, v + STEP) - at(&mut x, j, v + 2.0 * STEP)) / (2.0 * STEP)
-            };
+            *o = 0.0;
+            for (offset, weight) in stencil(v) {
+                if weight == 0.0 {
+                    continue;
+                }
+                let at = if offset == 0.0 {
+                    h
+                } else {
+                    x[j] = v + offset;
+                    self.phase_enthalpy(phase, &x, t_k, p_pa).0
+                };
+                *o += weight * at;
+            }
+            x[j] = v;
         }
         let weighted: f64 = fractions.iter().zip(out.iter()).map(|(x, d)| x * d).sum();
         for o in out.iter_mut().take(fractions.len()) {

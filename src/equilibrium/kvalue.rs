@@ -1,5 +1,6 @@
 //! K-value models: the ratio Kᵢ = yᵢ / xᵢ at equilibrium.
 
+use crate::difference::stencil;
 use crate::library::{Library, UnknownComponent};
 use crate::properties::{Component, VapourPressure};
 use crate::warnings::{RAOULT_PRESSURE_LIMIT_PA, Warning, push_unique};
@@ -101,7 +102,8 @@ pub trait KValueModel {
     /// are asked (for dβ/dT, dβ/dP and dQ/dT of a two-phase state).
     ///
     /// Default: central differences of [`k_values`](Self::k_values) with a step of 1e-6
-    /// (a three-point one-sided difference for a mole fraction below the step), which is
+    /// (a three-point one-sided difference for a mole fraction below the step, from the
+    /// K-values at the given compositions, evaluated once), which is
     /// accurate to about 1e-9 relative for smooth models. A model with analytic
     /// derivatives overrides it.
     ///
@@ -126,7 +128,6 @@ pub trait KValueModel {
         if !self.is_composition_dependent() || liquid.len() != n || vapour.len() != n {
             return;
         }
-        const STEP: f64 = 1e-6;
         let mut kv = KValues::new(n);
         let mut ln_k = |x: &[f64], y: &[f64], out: &mut Vec<f64>| {
             self.k_values(t_k, p_pa, x, y, &mut kv);
@@ -134,30 +135,25 @@ pub trait KValueModel {
             out.extend(kv.k.iter().map(|k| k.ln()));
         };
         let (mut x, mut y) = (liquid.to_vec(), vapour.to_vec());
-        let (mut a, mut b, mut c) = (Vec::new(), Vec::new(), Vec::new());
+        let (mut at_start, mut shifted) = (Vec::new(), Vec::new());
+        ln_k(&x, &y, &mut at_start);
         for (which, out) in [(0, &mut *dln_k_dx), (1, &mut *dln_k_dy)] {
             for j in 0..n {
                 let v0 = if which == 0 { x[j] } else { y[j] };
-                let mut at = |v: f64, out: &mut Vec<f64>| {
-                    if which == 0 {
-                        x[j] = v;
+                for (offset, weight) in stencil(v0) {
+                    if weight == 0.0 {
+                        continue;
+                    }
+                    let values = if offset == 0.0 {
+                        &at_start
                     } else {
-                        y[j] = v;
-                    }
-                    ln_k(&x, &y, out);
-                };
-                if v0 >= STEP {
-                    at(v0 + STEP, &mut a);
-                    at(v0 - STEP, &mut b);
+                        let v = if which == 0 { &mut x[j] } else { &mut y[j] };
+                        *v = v0 + offset;
+                        ln_k(&x, &y, &mut shifted);
+                        &shifted
+                    };
                     for i in 0..n {
-                        out[i * n + j] = (a[i] - b[i]) / (2.0 * STEP);
-                    }
-                } else {
-                    at(v0, &mut a);
-                    at(v0 + STEP, &mut b);
-                    at(v0 + 2.0 * STEP, &mut c);
-                    for i in 0..n {
-                        out[i * n + j] = (-3.0 * a[i] + 4.0 * b[i] - c[i]) / (2.0 * STEP);
+                        out[i * n + j] += weight * values[i];
                     }
                 }
                 if which == 0 {
