@@ -356,12 +356,16 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
         }
     }
 
-    /// d/dT at constant pressure of [`Self::phase_enthalpy`], J/(mol·K).
+    /// [`Self::phase_enthalpy`] and its derivative in T at constant pressure, J/(mol·K),
+    /// from one evaluation of a general model.
     #[inline]
-    pub(crate) fn phase_slope(&self, phase: Phase, fractions: &[f64], t_k: f64, p_pa: f64) -> f64 {
+    pub(crate) fn phase_enthalpy_and_slope(&self, phase: Phase, fractions: &[f64], t_k: f64, p_pa: f64) -> (f64, f64) {
         match self.ideal() {
-            Some(m) => m.table().phase_slope_at(m.components(), phase, fractions, t_k, p_pa),
-            None => self.enthalpy.phase_enthalpy(phase, fractions, t_k, p_pa).1,
+            Some(m) => (
+                m.table().phase_enthalpy_at(m.components(), phase, fractions, t_k, p_pa),
+                m.table().phase_slope_at(m.components(), phase, fractions, t_k, p_pa),
+            ),
+            None => self.enthalpy.phase_enthalpy(phase, fractions, t_k, p_pa),
         }
     }
 
@@ -809,7 +813,10 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
             let bracket = expand_bracket(h, lo_t, hi_t, SEARCH_MIN_TEMPERATURE_K, SEARCH_MAX_TEMPERATURE_K)
                 .ok_or_else(out_of_reach)?;
             let root = bracketed_newton(
-                |t| (h(t), self.phase_slope(phase, z, t, p_pa)),
+                |t| {
+                    let (h, slope) = self.phase_enthalpy_and_slope(phase, z, t, p_pa);
+                    (h - target, slope)
+                },
                 bracket.lo,
                 bracket.hi,
                 bracket.secant(),

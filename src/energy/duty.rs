@@ -190,7 +190,10 @@ fn outlet_of<K: KValueModel, H: PhaseEnthalpyModel>(
     let mut result = calc.result(inlet_s, outlet_s, true);
     // Report the duty asked for; the computed one agrees to the solver tolerance.
     result.duty_w = duty.watts();
-    if calc.options().path == VaporisationPath::StreamTemperature && calc.base().is_some() {
+    if calc
+        .base()
+        .is_some_and(|b| b.path() == VaporisationPath::StreamTemperature)
+    {
         // The search needs the dew point (for a liquid outlet not yet known; none: nothing
         // vaporises, no other outlet; a failed search only skips the check).
         let mut scratch = Solved::new(calc.component_count());
@@ -285,15 +288,14 @@ pub fn heating_curve_with<K: KValueModel + ?Sized, H: PhaseEnthalpyModel + ?Size
     )
 }
 
+/// The curve of [`heating_curve`]; the callers have checked `points` (before building the
+/// calculator, so that too few points is the error reported first).
 fn curve_of<K: KValueModel, H: PhaseEnthalpyModel>(
     calc: &Calc<'_, K, H>,
     inlet: StreamState,
     outlet: StreamState,
     points: usize,
 ) -> Result<Curve, EnergyError> {
-    if points < 2 {
-        return Err(EnergyError::TooFewPoints { value: points });
-    }
     let n = calc.component_count();
     let (mut inlet_s, mut outlet_s, mut work) = (Solved::new(n), Solved::new(n), Solved::new(n));
     calc.flash_state("inlet", inlet, &mut inlet_s)?;

@@ -64,8 +64,11 @@ use std::borrow::Cow;
 ///
 /// Any K-value and phase-enthalpy models plug in through
 /// [`with_models`](Self::with_models); the defaults are Raoult's law and the
-/// [`EnthalpyModel`] of the [`DutyOptions`]. (A composition-dependent K-value model
-/// allocates in its composition loop and in dQ/dT.)
+/// [`EnthalpyModel`] of the [`DutyOptions`]. It stays allocation-free with an
+/// [`EnthalpyModel`] and any composition-independent K-value model; a composition-dependent
+/// K-value model allocates in its composition loop, and either such a model or another
+/// enthalpy model allocates small vectors for dQ/dT of a two-phase state (the vapour
+/// amounts' slopes and the partial molar enthalpies).
 #[derive(Clone)]
 pub struct DutyCalculator<K = Raoult, H = EnthalpyModel> {
     calc: Calc<'static, K, H>,

@@ -62,8 +62,8 @@ impl<K: KValueModel, H: PhaseEnthalpyModel> Calc<'_, K, H> {
             }
         };
         let mut vapour = |t: f64| {
-            let h = self.phase_enthalpy(Phase::Vapour, z, t, p_pa) - target;
-            (h, self.phase_slope(Phase::Vapour, z, t, p_pa))
+            let (h, slope) = self.phase_enthalpy_and_slope(Phase::Vapour, z, t, p_pa);
+            (h - target, slope)
         };
         // The first critical temperature where the enthalpy falls below the target.
         let dip = inside
