@@ -24,7 +24,7 @@ use flashduty::energy::{
 };
 use flashduty::equilibrium::FlashResult;
 use flashduty::library::Library;
-use flashduty::units::{MolarFlow, Power, Pressure, Temperature};
+use flashduty::units::{MolarFlow, Power, Pressure};
 use rng::Rng;
 use std::fmt::Write;
 
@@ -58,23 +58,8 @@ fn flash_bits(out: &mut String, r: &FlashResult) {
 }
 
 fn state(rng: &mut Rng) -> StreamState {
-    let t = Temperature::new("T", 250.0 + 300.0 * rng.uniform()).unwrap();
-    let p = Pressure::new("P", rng.log_uniform(2e4, 5e5)).unwrap();
-    let beta = rng.uniform();
-    match rng.range(0, 3) {
-        0 | 1 => StreamState::TemperaturePressure {
-            temperature: t,
-            pressure: p,
-        },
-        2 => StreamState::PressureVapourFraction {
-            pressure: p,
-            vapour_fraction: beta,
-        },
-        _ => StreamState::TemperatureVapourFraction {
-            temperature: t,
-            vapour_fraction: beta,
-        },
-    }
+    let (t, p, beta) = (250.0 + 300.0 * rng.uniform(), rng.log_uniform(2e4, 5e5), rng.uniform());
+    common::stream_state(rng.range(0, 3), t, p, beta)
 }
 
 /// One line per case.

@@ -462,26 +462,8 @@ fn check_calculator_outlet(
 
 /// A state given by T and P, P and β, or T and β.
 fn state() -> impl Strategy<Value = StreamState> {
-    (0u8..4, 250.0f64..550.0, (2e4f64).ln()..(5e5f64).ln(), 0.0f64..=1.0).prop_map(|(kind, t, log_p, beta)| {
-        let (t, p) = (
-            Temperature::new("T", t).unwrap(),
-            Pressure::new("P", log_p.exp()).unwrap(),
-        );
-        match kind {
-            0 | 1 => StreamState::TemperaturePressure {
-                temperature: t,
-                pressure: p,
-            },
-            2 => StreamState::PressureVapourFraction {
-                pressure: p,
-                vapour_fraction: beta,
-            },
-            _ => StreamState::TemperatureVapourFraction {
-                temperature: t,
-                vapour_fraction: beta,
-            },
-        }
-    })
+    (0u8..4, 250.0f64..550.0, (2e4f64).ln()..(5e5f64).ln(), 0.0f64..=1.0)
+        .prop_map(|(kind, t, log_p, beta)| common::stream_state(usize::from(kind), t, log_p.exp(), beta))
 }
 
 proptest! {

@@ -1,7 +1,9 @@
 //! Shared helpers for the integration tests: reading the committed fixture tables.
 #![allow(dead_code)]
 
+use flashduty::energy::StreamState;
 use flashduty::library::Library;
+use flashduty::units::{Pressure, Temperature};
 use proptest::prelude::*;
 use std::collections::HashMap;
 
@@ -49,4 +51,24 @@ pub fn mixtures(min: usize, max: usize) -> impl Strategy<Value = (Vec<String>, V
             let s: f64 = w.iter().sum();
             (names, w.iter().map(|v| v / s).collect())
         })
+}
+
+/// The stream state the energy tests draw: `kind` 0 or 1 a T–P state (twice as often), 2 a
+/// P–β state, else a T–β state, from `t_k`, `p_pa` and `beta`.
+pub fn stream_state(kind: usize, t_k: f64, p_pa: f64, beta: f64) -> StreamState {
+    let (t, p) = (Temperature::new("T", t_k).unwrap(), Pressure::new("P", p_pa).unwrap());
+    match kind {
+        0 | 1 => StreamState::TemperaturePressure {
+            temperature: t,
+            pressure: p,
+        },
+        2 => StreamState::PressureVapourFraction {
+            pressure: p,
+            vapour_fraction: beta,
+        },
+        _ => StreamState::TemperatureVapourFraction {
+            temperature: t,
+            vapour_fraction: beta,
+        },
+    }
 }
