@@ -1,0 +1,635 @@
+//! [`UserComponentBuilder`] and [`UserComponent`]: a fitted correlation and the user's
+//! values made into a checked component in the library's schema.
+
+use super::antoine::{AntoineFit, published_constants};
+use super::cp::CpFit;
+use super::data::{BOILING_POINT_TOLERANCE, LATENT_HEAT_TOLERANCE};
+use super::error::{FitError, FitWarning};
+use super::extended::ExtendedFit;
+use super::report::FitReport;
+use crate::library::{Library, SCHEMA};
+use crate::properties::component::ComponentRecord;
+use crate::properties::{Antoine, AntoineForm, Component, ComponentError, LatentHeat, ValidityRange, VapourPressure};
+use crate::units::GAS_CONSTANT;
+use crate::units::{self};
+use serde::Serialize;
+use serde_json::{Value, json};
+use std::collections::BTreeMap;
+use std::fmt;
+
+/// The consistency checks of a component at its normal boiling point, with their values.
+///
+/// ```
+/// use flashduty::fit::ComponentChecks;
+/// use flashduty::library::Library;
+/// let benzene = Library::builtin().get("benzene").unwrap();
+/// let c = ComponentChecks::of(benzene);
+/// assert!(c.boiling_point_passed(), "{c:?}");
+/// ```
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct ComponentChecks {
+    /// The normal boiling point, K.
+    pub normal_boiling_point_k: f64,
+    /// Psat at Tb, Pa.
+    pub psat_at_boiling_point_pa: f64,
+    /// Psat(Tb)/101 325 Pa − 1.
+    pub psat_relative_deviation: f64,
+    /// [`BOILING_POINT_TOLERANCE`].
+    pub psat_tolerance: f64,
+    /// R Tb² d ln Psat/dT at Tb, J/mol.
+    pub clausius_clapeyron_latent_heat_j_per_mol: f64,
+    /// The latent-heat correlation at Tb, J/mol.
+    pub latent_heat_at_boiling_point_j_per_mol: f64,
+    /// Clausius–Clapeyron value / correlation − 1.
+    pub latent_heat_relative_deviation: f64,
+    /// [`LATENT_HEAT_TOLERANCE`].
+    pub latent_heat_tolerance: f64,
+}
+
+impl ComponentChecks {
+    /// Runs the checks on a component.
+    pub fn of(component: &Component) -> Self {
+        let tb = component.normal_boiling_point_k();
+        let (ln_p, slope) = component.vapour_pressure().ln_psat_with_slope(tb);
+        let psat = ln_p.exp();
+        let cc = GAS_CONSTANT * tb * tb * slope;
+        let dh = component.latent_heat().latent_heat(tb);
+        Self {
+            normal_boiling_point_k: tb,
+            psat_at_boiling_point_pa: psat,
+            psat_relative_deviation: psat / units::ATM_PA - 1.0,
+            psat_tolerance: BOILING_POINT_TOLERANCE,
+            clausius_clapeyron_latent_heat_j_per_mol: cc,
+            latent_heat_at_boiling_point_j_per_mol: dh,
+            latent_heat_relative_deviation: cc / dh - 1.0,
+            latent_heat_tolerance: LATENT_HEAT_TOLERANCE,
+        }
+    }
+
+    /// Whether Psat(Tb) is 101.325 kPa within tolerance.
+    pub fn boiling_point_passed(&self) -> bool {
+        self.psat_relative_deviation.abs() <= self.psat_tolerance
+    }
+
+    /// Whether the Clausius–Clapeyron latent heat agrees within tolerance.
+    pub fn latent_heat_passed(&self) -> bool {
+        self.latent_heat_relative_deviation.abs() <= self.latent_heat_tolerance
+    }
+
+    /// The failed checks as warnings.
+    pub fn failures(&self) -> Vec<FitWarning> {
+        let mut out = Vec::new();
+        if !self.boiling_point_passed() {
+            out.push(FitWarning::BoilingPointPressure {
+                normal_boiling_point_k: self.normal_boiling_point_k,
+                psat_pa: self.psat_at_boiling_point_pa,
+                relative_deviation: self.psat_relative_deviation,
+                tolerance: self.psat_tolerance,
+            });
+        }
+        if !self.latent_heat_passed() {
+            out.push(FitWarning::LatentHeatConsistency {
+                normal_boiling_point_k: self.normal_boiling_point_k,
+                clausius_clapeyron_j_per_mol: self.clausius_clapeyron_latent_heat_j_per_mol,
+                latent_heat_j_per_mol: self.latent_heat_at_boiling_point_j_per_mol,
+                relative_deviation: self.latent_heat_relative_deviation,
+                tolerance: self.latent_heat_tolerance,
+            });
+        }
+        out
+    }
+}
+
+#[derive(Debug, Clone)]
+pub(super) enum VapourPressureEntry {
+    Antoine {
+        antoine: Antoine,
+        note: Option<String>,
+    },
+    Extended {
+        constants: [f64; 5],
+        range: ValidityRange,
+        note: Option<String>,
+    },
+}
+
+#[derive(Debug, Clone)]
+pub(super) enum HeatCapacityEntry {
+    Polynomial {
+        coefficients: Vec<f64>,
+        range: ValidityRange,
+        note: Option<String>,
+    },
+    Constant {
+        value: f64,
+        range: ValidityRange,
+    },
+}
+
+#[derive(Debug, Clone)]
+pub(super) struct Citation {
+    source: String,
+    from_memory: bool,
+    note: Option<String>,
+}
+
+/// The schema field names a value can be cited for.
+pub(super) const CITABLE_FIELDS: &[&str] = &[
+    "molar_mass_g_per_mol",
+    "critical_temperature_K",
+    "critical_pressure_Pa",
+    "acentric_factor",
+    "normal_boiling_point_K",
+    "vapour_pressure",
+    "liquid_heat_capacity",
+    "vapour_heat_capacity",
+    "latent_heat",
+];
+
+pub(super) fn fit_note(r: &FitReport) -> String {
+    format!(
+        "fitted to {} points, {}-{} K; max |dev| {:.3} %, RMS {:.3} %",
+        r.residuals.len(),
+        r.validity.min_k,
+        r.validity.max_k,
+        100.0 * r.max_abs_relative_deviation,
+        100.0 * r.rms_relative_deviation
+    )
+}
+
+/// Builds a user component from fitted correlations and given values, checks it, and writes
+/// it as a component file.
+///
+/// Every value cites the user's source (key `user-data` unless set with
+/// [`source_key`](Self::source_key)), whose citation is the text given to [`new`](Self::new),
+/// with `from_memory: false`; [`cite`](Self::cite) lets a value cite another source instead.
+///
+/// [`build`](Self::build) runs the library's checks ([`Component`] schema checks), then the
+/// consistency checks at the normal boiling point ([`ComponentChecks`]): Psat(Tb) within
+/// 1.5 % of 101.325 kPa and the Clausius–Clapeyron latent heat within 8 % of the latent heat
+/// given. Failed checks are warnings, or errors after [`strict`](Self::strict).
+///
+/// ```
+/// use flashduty::fit::{fit_antoine, DataPoint, UserComponentBuilder};
+/// use flashduty::library::Library;
+/// // Points from the NIST WebBook Antoine constants for benzene (from memory).
+/// let psat = |t: f64| 1e5 * 10f64.powf(4.01814 - 1203.835 / (t - 53.226));
+/// let pts: Vec<_> = (0..14).map(|i| { let t = 290.0 + 5.0 * i as f64; DataPoint::new(t, psat(t)) }).collect();
+/// let vp = fit_antoine(&pts).unwrap();
+/// // Benzene constants: CRC Handbook (M, Tb, ΔHvap) and Poling–Prausnitz–O'Connell
+/// // (Tc, Pc, ω), from memory; the name and CAS number are made up for the example.
+/// let user = UserComponentBuilder::new("benzene-plant", "0000-00-0", "C6H6", "plant laboratory, 2026-03, sample 17")
+///     .molar_mass_g_per_mol(78.112)
+///     .critical_temperature_k(562.05)
+///     .critical_pressure_pa(4.895e6)
+///     .acentric_factor(0.210)
+///     .normal_boiling_point_k(353.24)
+///     .vapour_pressure_antoine(&vp)
+///     .liquid_cp_constant(136.0, 280.0, 360.0)
+///     .vapour_cp_constant(82.4, 280.0, 600.0)
+///     .latent_heat_watson(353.24, 30_720.0, None)
+///     .build()
+///     .unwrap();
+/// assert!(user.warnings().is_empty(), "{:?}", user.warnings());
+/// let mut lib = Library::default();
+/// lib.add_json("mine.json", &user.to_file_string()).unwrap();
+/// assert_eq!(lib.get("benzene-plant").unwrap().cas(), "0000-00-0");
+/// ```
+#[derive(Debug, Clone)]
+pub struct UserComponentBuilder {
+    name: String,
+    cas: String,
+    formula: String,
+    synonyms: Vec<String>,
+    source_key: String,
+    citation: String,
+    extra_sources: BTreeMap<String, String>,
+    citations: BTreeMap<String, Citation>,
+    molar_mass: Option<f64>,
+    tc: Option<f64>,
+    pc: Option<f64>,
+    omega: Option<f64>,
+    tb: Option<f64>,
+    vapour_pressure: Option<VapourPressureEntry>,
+    antoine_form: AntoineForm,
+    liquid_cp: Option<HeatCapacityEntry>,
+    vapour_cp: Option<HeatCapacityEntry>,
+    latent_heat: Option<(f64, f64, Option<f64>)>,
+    strict: bool,
+}
+
+impl UserComponentBuilder {
+    /// Starts a component with its name, CAS number and formula; `citation` is the full text
+    /// of the user's source (e.g. "plant laboratory, 2026-03, sample 17").
+    pub fn new(
+        name: impl Into<String>,
+        cas: impl Into<String>,
+        formula: impl Into<String>,
+        citation: impl Into<String>,
+    ) -> Self {
+        Self {
+            name: name.into(),
+            cas: cas.into(),
+            formula: formula.into(),
+            synonyms: Vec::new(),
+            source_key: "user-data".to_string(),
+            citation: citation.into(),
+            extra_sources: BTreeMap::new(),
+            citations: BTreeMap::new(),
+            molar_mass: None,
+            tc: None,
+            pc: None,
+            omega: None,
+            tb: None,
+            vapour_pressure: None,
+            antoine_form: AntoineForm::LnPascalKelvin,
+            liquid_cp: None,
+            vapour_cp: None,
+            latent_heat: None,
+            strict: false,
+        }
+    }
+
+    /// The bibliography key of the user's source (default `user-data`).
+    pub fn source_key(mut self, key: impl Into<String>) -> Self {
+        self.source_key = key.into();
+        self
+    }
+
+    /// Other accepted names.
+    pub fn synonyms<S: Into<String>>(mut self, names: impl IntoIterator<Item = S>) -> Self {
+        self.synonyms = names.into_iter().map(Into::into).collect();
+        self
+    }
+
+    /// Adds a bibliography entry for values that come from elsewhere (see [`cite`](Self::cite)).
+    /// A key of the built-in library may be cited without adding it; its citation is copied.
+    pub fn source(mut self, key: impl Into<String>, citation: impl Into<String>) -> Self {
+        self.extra_sources.insert(key.into(), citation.into());
+        self
+    }
+
+    /// Makes `field` (a schema field name such as `critical_temperature_K` or
+    /// `latent_heat`) cite `source_key` instead of the user's source.
+    pub fn cite(mut self, field: &str, source_key: impl Into<String>, from_memory: bool, note: Option<String>) -> Self {
+        self.citations.insert(
+            field.to_string(),
+            Citation {
+                source: source_key.into(),
+                from_memory,
+                note,
+            },
+        );
+        self
+    }
+
+    /// Molar mass, g/mol.
+    pub fn molar_mass_g_per_mol(mut self, v: f64) -> Self {
+        self.molar_mass = Some(v);
+        self
+    }
+    /// Critical temperature, K.
+    pub fn critical_temperature_k(mut self, v: f64) -> Self {
+        self.tc = Some(v);
+        self
+    }
+    /// Critical pressure, Pa.
+    pub fn critical_pressure_pa(mut self, v: f64) -> Self {
+        self.pc = Some(v);
+        self
+    }
+    /// Acentric factor.
+    pub fn acentric_factor(mut self, v: f64) -> Self {
+        self.omega = Some(v);
+        self
+    }
+    /// Normal boiling point, K.
+    pub fn normal_boiling_point_k(mut self, v: f64) -> Self {
+        self.tb = Some(v);
+        self
+    }
+
+    /// The vapour pressure from an Antoine fit (its note records the fit's statistics).
+    pub fn vapour_pressure_antoine(mut self, fit: &AntoineFit) -> Self {
+        self.vapour_pressure = Some(VapourPressureEntry::Antoine {
+            antoine: fit.antoine,
+            note: Some(fit_note(&fit.report)),
+        });
+        self
+    }
+
+    /// The vapour pressure from given Antoine constants.
+    pub fn antoine(mut self, antoine: Antoine) -> Self {
+        self.vapour_pressure = Some(VapourPressureEntry::Antoine { antoine, note: None });
+        self
+    }
+
+    /// The unit convention the Antoine constants are written in (default `ln-Pa-K`, which
+    /// writes the fitted constants without conversion).
+    pub fn antoine_units(mut self, form: AntoineForm) -> Self {
+        self.antoine_form = form;
+        self
+    }
+
+    /// The vapour pressure from an extended-form fit.
+    pub fn vapour_pressure_extended(mut self, fit: &ExtendedFit) -> Self {
+        self.vapour_pressure = Some(VapourPressureEntry::Extended {
+            constants: fit.constants,
+            range: fit.report.validity,
+            note: Some(fit_note(&fit.report)),
+        });
+        self
+    }
+
+    /// The liquid heat capacity from a polynomial fit.
+    pub fn liquid_cp_fit(mut self, fit: &CpFit) -> Self {
+        self.liquid_cp = Some(cp_entry(fit));
+        self
+    }
+
+    /// A constant liquid heat capacity, J/(mol·K), valid from `t_min_k` to `t_max_k`.
+    pub fn liquid_cp_constant(mut self, value: f64, t_min_k: f64, t_max_k: f64) -> Self {
+        self.liquid_cp = Some(constant_entry(value, t_min_k, t_max_k));
+        self
+    }
+
+    /// The ideal-gas heat capacity from a polynomial fit.
+    pub fn vapour_cp_fit(mut self, fit: &CpFit) -> Self {
+        self.vapour_cp = Some(cp_entry(fit));
+        self
+    }
+
+    /// A constant ideal-gas heat capacity, J/(mol·K), valid from `t_min_k` to `t_max_k`.
+    pub fn vapour_cp_constant(mut self, value: f64, t_min_k: f64, t_max_k: f64) -> Self {
+        self.vapour_cp = Some(constant_entry(value, t_min_k, t_max_k));
+        self
+    }
+
+    /// The latent heat by Watson's correlation from one known value, J/mol at `t_anchor_k`
+    /// (usually the normal boiling point); exponent 0.38 unless given.
+    pub fn latent_heat_watson(mut self, t_anchor_k: f64, value_j_per_mol: f64, exponent: Option<f64>) -> Self {
+        self.latent_heat = Some((t_anchor_k, value_j_per_mol, exponent));
+        self
+    }
+
+    /// Makes failed consistency checks errors rather than warnings.
+    pub fn strict(mut self, strict: bool) -> Self {
+        self.strict = strict;
+        self
+    }
+
+    fn provenance(&self, field: &str) -> Value {
+        match self.citations.get(field) {
+            Some(c) => {
+                let mut v = json!({"source": c.source, "from_memory": c.from_memory});
+                if let Some(n) = &c.note {
+                    v["note"] = json!(n);
+                }
+                v
+            }
+            None => json!({"source": self.source_key, "from_memory": false}),
+        }
+    }
+
+    fn merge(mut entry: Value, provenance: Value, note: Option<&String>) -> Value {
+        if let (Some(e), Some(p)) = (entry.as_object_mut(), provenance.as_object()) {
+            for (k, v) in p {
+                e.insert(k.clone(), v.clone());
+            }
+            if let Some(n) = note
+                && !e.contains_key("note")
+            {
+                e.insert("note".to_string(), json!(n));
+            }
+        }
+        entry
+    }
+
+    fn invalid(&self, field: &str, value: impl fmt::Display, why: &str) -> FitError {
+        FitError::InvalidValue {
+            component: self.name.clone(),
+            field: field.to_string(),
+            value: value.to_string(),
+            why: why.to_string(),
+        }
+    }
+
+    /// Checks the component and returns it with its checks and file text.
+    ///
+    /// # Errors
+    /// [`FitError::MissingField`] or [`FitError::InvalidValue`] for a missing or non-finite
+    /// value or an unknown cited field; [`FitError::Component`] when the library's checks
+    /// reject it (naming the field); [`FitError::ChecksFailed`] in strict mode.
+    pub fn build(&self) -> Result<UserComponent, FitError> {
+        let missing = |field: &'static str| FitError::MissingField {
+            component: self.name.clone(),
+            field,
+        };
+        let given = |field: &'static str, v: Option<f64>| -> Result<Value, FitError> {
+            let v = v.ok_or_else(|| missing(field))?;
+            if !v.is_finite() {
+                return Err(self.invalid(field, v, "must be a finite number"));
+            }
+            Ok(Self::merge(json!({"value": v}), self.provenance(field), None))
+        };
+        for field in self.citations.keys() {
+            if !CITABLE_FIELDS.contains(&field.as_str()) {
+                return Err(self.invalid(
+                    "cite",
+                    field,
+                    &format!("not a citable field; use one of {}", CITABLE_FIELDS.join(", ")),
+                ));
+            }
+        }
+        let molar_mass = given("molar_mass_g_per_mol", self.molar_mass)?;
+        let tc = given("critical_temperature_K", self.tc)?;
+        let pc = given("critical_pressure_Pa", self.pc)?;
+        let omega = given("acentric_factor", self.omega)?;
+        let tb = given("normal_boiling_point_K", self.tb)?;
+
+        let vapour_pressure = match self
+            .vapour_pressure
+            .as_ref()
+            .ok_or_else(|| missing("vapour_pressure"))?
+        {
+            VapourPressureEntry::Antoine { antoine, note } => {
+                let (a, b, c) = published_constants(antoine, self.antoine_form);
+                let r = antoine.validity();
+                let entry = json!({"form": "antoine", "units": self.antoine_form, "A": a, "B": b, "C": c,
+                    "T_min_K": r.min_k, "T_max_K": r.max_k});
+                Self::merge(entry, self.provenance("vapour_pressure"), note.as_ref())
+            }
+            VapourPressureEntry::Extended { constants, range, note } => {
+                let [a, b, c, d, e] = *constants;
+                let entry = json!({"form": "extended", "A": a, "B": b, "C": c, "D": d, "E": e,
+                    "T_min_K": range.min_k, "T_max_K": range.max_k});
+                Self::merge(entry, self.provenance("vapour_pressure"), note.as_ref())
+            }
+        };
+        let cp = |field: &'static str, e: &Option<HeatCapacityEntry>| -> Result<Value, FitError> {
+            Ok(match e.as_ref().ok_or_else(|| missing(field))? {
+                HeatCapacityEntry::Polynomial {
+                    coefficients,
+                    range,
+                    note,
+                } => Self::merge(
+                    json!({"form": "polynomial", "coefficients": coefficients, "T_min_K": range.min_k, "T_max_K": range.max_k}),
+                    self.provenance(field),
+                    note.as_ref(),
+                ),
+                HeatCapacityEntry::Constant { value, range } => {
+                    if !value.is_finite() {
+                        return Err(self.invalid(field, value, "must be a finite number"));
+                    }
+                    Self::merge(
+                        json!({"form": "constant", "value": value, "T_min_K": range.min_k, "T_max_K": range.max_k}),
+                        self.provenance(field),
+                        None,
+                    )
+                }
+            })
+        };
+        let liquid_cp = cp("liquid_heat_capacity", &self.liquid_cp)?;
+        let vapour_cp = cp("vapour_heat_capacity", &self.vapour_cp)?;
+        let (t_anchor, dh, exponent) = self.latent_heat.ok_or_else(|| missing("latent_heat"))?;
+        for (what, v) in [("T_anchor_K", t_anchor), ("value_J_per_mol", dh)] {
+            if !v.is_finite() {
+                return Err(self.invalid(&format!("latent_heat.{what}"), v, "must be a finite number"));
+            }
+        }
+        let mut latent = json!({"form": "watson", "T_anchor_K": t_anchor, "value_J_per_mol": dh});
+        if let Some(n) = exponent {
+            if !n.is_finite() {
+                return Err(self.invalid("latent_heat.exponent", n, "must be a finite number"));
+            }
+            latent["exponent"] = json!(n);
+        }
+        let latent = Self::merge(latent, self.provenance("latent_heat"), None);
+
+        let record_json = json!({
+            "name": self.name,
+            "synonyms": self.synonyms,
+            "cas": self.cas,
+            "formula": self.formula,
+            "molar_mass_g_per_mol": molar_mass,
+            "critical_temperature_K": tc,
+            "critical_pressure_Pa": pc,
+            "acentric_factor": omega,
+            "normal_boiling_point_K": tb,
+            "vapour_pressure": vapour_pressure,
+            "liquid_heat_capacity": liquid_cp,
+            "vapour_heat_capacity": vapour_cp,
+            "latent_heat": latent,
+        });
+        let record: ComponentRecord = serde_json::from_value(record_json).map_err(|e| ComponentError::Parse {
+            file: format!("<user component '{}'>", self.name),
+            message: e.to_string(),
+        })?;
+
+        // The bibliography: the user's source, added sources, and built-in keys cited.
+        let mut sources = BTreeMap::new();
+        sources.insert(self.source_key.clone(), self.citation.clone());
+        sources.extend(self.extra_sources.clone());
+        let builtin = Library::builtin().sources();
+        for c in self.citations.values() {
+            if !sources.contains_key(&c.source)
+                && let Some(text) = builtin.get(&c.source)
+            {
+                sources.insert(c.source.clone(), text.clone());
+            }
+        }
+        let component = Component::from_record(record, &sources)?;
+
+        let checks = ComponentChecks::of(&component);
+        let failed = checks.failures();
+        if self.strict && !failed.is_empty() {
+            return Err(FitError::ChecksFailed {
+                component: self.name.clone(),
+                failed,
+            });
+        }
+        let mut warnings = failed;
+        let range = component.vapour_pressure().validity();
+        let tb_k = component.normal_boiling_point_k();
+        if !range.contains(tb_k) {
+            warnings.insert(
+                0,
+                FitWarning::BoilingPointOutsideFit {
+                    normal_boiling_point_k: tb_k,
+                    min_k: range.min_k,
+                    max_k: range.max_k,
+                },
+            );
+        }
+        Ok(UserComponent {
+            component,
+            checks,
+            warnings,
+            sources,
+        })
+    }
+}
+
+pub(super) fn cp_entry(fit: &CpFit) -> HeatCapacityEntry {
+    HeatCapacityEntry::Polynomial {
+        coefficients: fit.coefficients.clone(),
+        range: fit.report.validity,
+        note: Some(fit_note(&fit.report)),
+    }
+}
+
+pub(super) fn constant_entry(value: f64, t_min_k: f64, t_max_k: f64) -> HeatCapacityEntry {
+    HeatCapacityEntry::Constant {
+        value,
+        // An unusable range is caught by the library's checks when built.
+        range: ValidityRange {
+            min_k: t_min_k,
+            max_k: t_max_k,
+        },
+    }
+}
+
+/// A checked user component, its consistency checks, and its component-file text.
+#[derive(Debug, Clone)]
+pub struct UserComponent {
+    component: Component,
+    checks: ComponentChecks,
+    warnings: Vec<FitWarning>,
+    sources: BTreeMap<String, String>,
+}
+
+impl UserComponent {
+    /// The checked component.
+    pub fn component(&self) -> &Component {
+        &self.component
+    }
+
+    /// The component, consumed.
+    pub fn into_component(self) -> Component {
+        self.component
+    }
+
+    /// The consistency checks at the normal boiling point, with their values.
+    pub fn checks(&self) -> &ComponentChecks {
+        &self.checks
+    }
+
+    /// Failed checks, and a normal boiling point outside the vapour-pressure data.
+    pub fn warnings(&self) -> &[FitWarning] {
+        &self.warnings
+    }
+
+    /// The component file: `schema`, the `sources` it cites, and the component.
+    pub fn to_file_json(&self) -> Value {
+        json!({
+            "schema": SCHEMA,
+            "sources": self.sources,
+            "components": [self.component.to_json()],
+        })
+    }
+
+    /// The component file as pretty-printed JSON text, for [`Library::add_json`].
+    pub fn to_file_string(&self) -> String {
+        format!("{:#}\n", self.to_file_json())
+    }
+}
