@@ -1,5 +1,9 @@
-//! One-dimensional root finding shared by the flash and energy layers: Newton's method
-//! inside a bracket, with bisection whenever a step would leave it, and a hard cap.
+//! One-dimensional root finding, the one bracketed solver of the crate (the flash searches,
+//! the duty-specified flash, the peaks and crossings of the uniqueness check): Newton's method
+//! inside a bracket, the secant through the last two points where the function gives no
+//! slope, bisection whenever a step would leave the bracket, and a hard cap. (The
+//! Rachford–Rice solver has its own specialised Halley iteration; the Antoine fit minimises,
+//! with argmin's Brent optimiser.)
 
 /// What a bracketed search found.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -17,8 +21,12 @@ pub(crate) struct Root {
 const MAX_STEPS: u32 = 200;
 
 /// Finds the root of an increasing function `f` (returning value and slope) in
-/// `[lo, hi]`, given `f(lo) <= 0 <= f(hi)`, starting from `x0`. Stops when the Newton step
-/// is below `x_tol` or the bracket is narrower than `x_tol`. Always terminates.
+/// `[lo, hi]`, given `f(lo) <= 0 <= f(hi)`, starting from `x0`. Stops when the step is
+/// below `x_tol` or the bracket is narrower than `x_tol`. Always terminates.
+///
+/// A slope of NaN means "not known": the step is then the secant's through the last two
+/// points evaluated (from the second evaluation on; the first step bisects), under the same
+/// safeguards. A function that gives its slope is solved exactly as by plain Newton.
 pub(crate) fn bracketed_newton(
     mut f: impl FnMut(f64) -> (f64, f64),
     mut lo: f64,
@@ -29,12 +37,17 @@ pub(crate) fn bracketed_newton(
     let mut x = if x0 > lo && x0 < hi { x0 } else { 0.5 * (lo + hi) };
     let mut iterations = 0;
     let mut evaluations = 0;
+    let mut previous: Option<(f64, f64)> = None;
     while iterations < MAX_STEPS {
-        let (v, dv) = f(x);
+        let (v, mut dv) = f(x);
         evaluations += 1;
         iterations += 1;
         if v == 0.0 {
             break;
+        }
+        if dv.is_nan() {
+            dv = previous.map_or(f64::NAN, |(px, pv)| (v - pv) / (x - px));
+            previous = Some((x, v));
         }
         if v < 0.0 {
             lo = x;
@@ -148,6 +161,17 @@ mod tests {
         let r = bracketed_newton(|x| (x * x * x - 2.0, 3.0 * x * x), 0.0, 2.0, 1.0, 1e-14);
         assert!((r.x - 2f64.cbrt()).abs() < 1e-14);
         assert!(r.iterations < 10);
+    }
+
+    #[test]
+    fn without_a_slope_it_takes_secant_steps() {
+        let cube = |x: f64| (x * x * x - 2.0, f64::NAN);
+        let r = bracketed_newton(cube, 0.0, 2.0, 1.0, 1e-14);
+        assert!((r.x - 2f64.cbrt()).abs() < 1e-13, "{}", r.x);
+        assert!(r.iterations < 15, "{}", r.iterations);
+        // A jump: the secant steps leave the bracket and bisection takes over.
+        let r = bracketed_newton(|x| (if x < 0.3 { -1.0 } else { 1.0 }, f64::NAN), 0.0, 1.0, 0.9, 1e-12);
+        assert!((r.x - 0.3).abs() < 1e-11, "{}", r.x);
     }
 
     #[test]

@@ -30,6 +30,10 @@ use std::sync::Arc;
 /// duty-specified flash solves on temperature; below it, on vapour fraction.
 pub(crate) const WIDE_TWO_PHASE_K: f64 = 1.0;
 
+/// The tolerance on the vapour fraction of the duty-specified flash across a narrow
+/// two-phase region.
+const VAPOUR_FRACTION_TOLERANCE: f64 = 1e-13;
+
 /// A flashed state and the buffers holding its K-values and compositions.
 #[derive(Debug, Clone)]
 pub(crate) struct Solved {
@@ -898,7 +902,6 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
     /// Solves on the vapour fraction between the bubble and dew points: temperature may be
     /// flat there (pure components, azeotrope-like narrow boilers), vapour fraction never is.
     fn two_phase(&self, target: f64, p: Pressure, t_bub: f64, t_dew: f64, out: &mut Solved) -> Result<(), EnergyError> {
-        let (lo, hi) = (0.0, 1.0);
         let at = |beta: f64, out: &mut Solved| {
             let spec = FlashSpec::PressureVapourFraction {
                 pressure: p,
@@ -907,35 +910,23 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
             self.flash_spec(spec, Some((t_bub, t_dew)), out)
         };
         let mut failure: Option<EnergyError> = None;
-        let beta = {
-            let mut f = |beta: f64| match at(beta, out) {
-                Ok(()) => self.enthalpy(out) - target,
+        // The enthalpy rises with β at fixed pressure; its slope there is not at hand, so
+        // the search takes secant steps (bracketed, with bisection as the fallback).
+        let beta = bracketed_newton(
+            |beta: f64| match at(beta, out) {
+                Ok(()) => (self.enthalpy(out) - target, f64::NAN),
                 Err(e) => {
                     // Stop the search; the error is returned below.
                     failure.get_or_insert(e);
-                    0.0
+                    (0.0, f64::NAN)
                 }
-            };
-            match roots::find_root_brent(lo, hi, &mut f, &mut BrentTolerance) {
-                Ok(b) => b,
-                Err(_) => {
-                    // Brent can only fail here by running out of steps: finish by bisection.
-                    let (mut a, mut b) = (lo, hi);
-                    for _ in 0..200 {
-                        let m = 0.5 * (a + b);
-                        if f(m) < 0.0 {
-                            a = m
-                        } else {
-                            b = m
-                        }
-                        if b - a < 1e-15 {
-                            break;
-                        }
-                    }
-                    0.5 * (a + b)
-                }
-            }
-        };
+            },
+            0.0,
+            1.0,
+            0.5,
+            VAPOUR_FRACTION_TOLERANCE,
+        )
+        .x;
         if let Some(e) = failure {
             return Err(e);
         }
@@ -954,20 +945,5 @@ fn spread_of([a, b, c]: [f64; 3]) -> PathSpread {
         reference_temperature_w: c,
         spread_w: max - min,
         relative: if scale > 0.0 { (max - min) / scale } else { 0.0 },
-    }
-}
-
-/// Brent's tolerance for the vapour fraction in the duty-specified flash.
-struct BrentTolerance;
-
-impl roots::Convergency<f64> for BrentTolerance {
-    fn is_root_found(&mut self, y: f64) -> bool {
-        y == 0.0
-    }
-    fn is_converged(&mut self, x1: f64, x2: f64) -> bool {
-        (x1 - x2).abs() <= 1e-13
-    }
-    fn is_iteration_limit_reached(&mut self, iter: usize) -> bool {
-        iter >= 200
     }
 }

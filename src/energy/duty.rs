@@ -105,8 +105,8 @@ fn duty_of<K: KValueModel, H: PhaseEnthalpyModel>(
 /// to `stream` at `inlet` (zero duty: the adiabatic flash).
 ///
 /// Below the bubble point and above the dew point it solves for temperature; between them
-/// it solves on the vapour fraction (Brent's method from the `roots` crate, with bisection
-/// as a fallback), so pure components and narrow-boiling mixtures, whose temperature is
+/// it solves on the vapour fraction (bracketed secant steps, with bisection as a
+/// fallback), so pure components and narrow-boiling mixtures, whose temperature is
 /// flat across the two-phase region, are handled. It always terminates.
 ///
 /// Each step of the temperature search is one K-value evaluation and one Rachford–Rice

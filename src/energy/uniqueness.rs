@@ -97,8 +97,8 @@ impl<K: KValueModel, H: PhaseEnthalpyModel> Calc<'_, K, H> {
 
 /// Adds to `out` the temperatures in (`lo`, `hi`) where `f` (value and slope in T) crosses
 /// zero, for an `f` that between consecutive `cusps` (ascending, inside the interval) rises
-/// to one peak and falls into the next cusp: each piece's peak is found by bisection on the
-/// sign of the slope (just below a cusp the slope is unbounded below), and each rise and
+/// to one peak and falls into the next cusp: each piece's peak is found by the bracketed
+/// search on the slope (just below a cusp the slope is unbounded below), and each rise and
 /// fall through zero is solved by bracketed Newton. A NaN value finds nothing.
 fn crossings(f: &mut impl FnMut(f64) -> (f64, f64), lo: f64, hi: f64, cusps: &[f64], out: &mut Vec<f64>) {
     const TOLERANCE_K: f64 = 1e-10;
@@ -110,12 +110,9 @@ fn crossings(f: &mut impl FnMut(f64) -> (f64, f64), lo: f64, hi: f64, cusps: &[f
         } else if f(a).1 <= 0.0 {
             a
         } else {
-            let (mut l, mut h) = (a, top);
-            while h - l > 1e-9 * h {
-                let mid = 0.5 * (l + h);
-                if f(mid).1 > 0.0 { l = mid } else { h = mid }
-            }
-            l
+            // Where the slope falls through zero: the bracketed search on minus the slope,
+            // with secant steps (no second derivative is at hand).
+            bracketed_newton(|t| (-f(t).1, f64::NAN), a, top, 0.5 * (a + top), 1e-9 * top).x
         };
         if f(peak).0 > 0.0 {
             if f(a).0 < 0.0 {
