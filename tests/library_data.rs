@@ -9,7 +9,10 @@
 //! Run with `cargo test --test library_data -- --nocapture` to see the worst deviations.
 
 use flashduty::library::Library;
-use flashduty::properties::{Component, HeatCapacity, LatentHeat, LatentHeatModel, VapourPressure};
+use flashduty::properties::{
+    BOILING_POINT_TOLERANCE, Component, ComponentChecks, HeatCapacity, LATENT_HEAT_TOLERANCE, LatentHeat,
+    LatentHeatModel, VapourPressure,
+};
 use std::collections::BTreeMap;
 
 /// Molar gas constant, J/(mol K): CODATA 2018 (exact since the 2019 SI redefinition).
@@ -244,6 +247,15 @@ fn constants_are_physically_ordered() {
     }
 }
 
+/// The constants and tolerances of the library's checks: R from CODATA 2018 (exact since the
+/// 2019 SI redefinition), the standard atmosphere (exact), and this test file's 1.5 % and 8 %.
+#[test]
+fn the_shared_checks_use_codata_r_and_these_tolerances() {
+    assert_eq!(flashduty::units::GAS_CONSTANT, R);
+    assert_eq!(flashduty::units::ATM_PA, ATM_PA);
+    assert_eq!((BOILING_POINT_TOLERANCE, LATENT_HEAT_TOLERANCE), (0.015, 0.08));
+}
+
 #[test]
 fn vapour_pressure_at_normal_boiling_point_is_one_atmosphere() {
     let mut worst = (0.0f64, "");
@@ -256,9 +268,13 @@ fn vapour_pressure_at_normal_boiling_point_is_one_atmosphere() {
             c.name(),
             vp.validity()
         );
-        let d = rel(vp.psat_pa(tb), ATM_PA);
+        // The check is the library's own (`ComponentChecks`, which fit also runs on a user
+        // component); the 1 atm and the 1.5 % are asserted here as well.
+        let checks = ComponentChecks::of(c);
+        let d = checks.psat_relative_deviation;
+        assert!((d - rel(vp.psat_pa(tb), ATM_PA)).abs() < 1e-12);
         assert!(
-            d.abs() < 0.015,
+            d.abs() < 0.015 && checks.boiling_point_passed(),
             "{}: Psat(Tb = {tb} K) = {} Pa, {:+.2} %",
             c.name(),
             vp.psat_pa(tb),
@@ -279,8 +295,12 @@ fn clausius_clapeyron_agrees_with_latent_heat_at_tb() {
     let mut worst = (0.0f64, "");
     for c in lib().components() {
         let tb = c.normal_boiling_point_k();
-        let cc = R * tb * tb * c.vapour_pressure().dln_psat_dt(tb);
-        let lh = c.latent_heat().latent_heat(tb);
+        let checks = ComponentChecks::of(c);
+        let (cc, lh) = (
+            checks.clausius_clapeyron_latent_heat_j_per_mol,
+            checks.latent_heat_at_boiling_point_j_per_mol,
+        );
+        assert!((cc / (R * tb * tb * c.vapour_pressure().dln_psat_dt(tb)) - 1.0).abs() < 1e-12);
         let ratio = cc / lh;
         if let Some(ex) = CC_EXCEPTIONS.iter().find(|e| e.name == c.name()) {
             println!(
@@ -300,7 +320,7 @@ fn clausius_clapeyron_agrees_with_latent_heat_at_tb() {
         }
         let d = ratio - 1.0;
         assert!(
-            d.abs() < 0.08,
+            d.abs() < 0.08 && checks.latent_heat_passed(),
             "{}: Clausius-Clapeyron {cc:.0} J/mol vs library {lh:.0} J/mol at {tb} K ({:+.1} %)",
             c.name(),
             100.0 * d

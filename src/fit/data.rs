@@ -5,15 +5,6 @@ use super::error::{FitError, FitWarning};
 use crate::properties::ValidityRange;
 use serde::Serialize;
 
-/// Largest accepted |Psat(Tb)/101.325 kPa − 1| of a user component (common practice; the
-/// tolerance this project applies to its own library).
-pub const BOILING_POINT_TOLERANCE: f64 = 0.015;
-
-/// Largest accepted |ΔH_CC/ΔH(Tb) − 1|, where ΔH_CC = R Tb² d ln Psat/dT is the
-/// Clausius–Clapeyron latent heat (common practice: the ideal-gas, negligible-liquid-volume
-/// form runs a few per cent high at 1 atm because it ignores ΔZ).
-pub const LATENT_HEAT_TOLERANCE: f64 = 0.08;
-
 /// Points per fitted constant below which a fit is flagged as thinly supported (common
 /// practice).
 pub const RECOMMENDED_POINTS_PER_CONSTANT: usize = 2;

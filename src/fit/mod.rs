@@ -58,14 +58,13 @@ mod user_component;
 pub use antoine::{AntoineFit, fit_antoine, published_constants};
 pub use cp::{CpFit, fit_cp_polynomial};
 pub use csv::read_points_csv;
-pub use data::{
-    BOILING_POINT_TOLERANCE, DataKind, DataPoint, LATENT_HEAT_TOLERANCE, NEAR_DUPLICATE_K,
-    RECOMMENDED_POINTS_PER_CONSTANT, RECOMMENDED_SPAN_K,
-};
+pub use data::{DataKind, DataPoint, NEAR_DUPLICATE_K, RECOMMENDED_POINTS_PER_CONSTANT, RECOMMENDED_SPAN_K};
 pub use error::{FitError, FitWarning};
 pub use extended::{ExtendedFit, fit_extended};
 pub use report::{FitReport, NamedConstant, Residual};
-pub use user_component::{ComponentChecks, UserComponent, UserComponentBuilder};
+pub use user_component::{UserComponent, UserComponentBuilder};
 
+/// The consistency checks, defined in [`crate::properties`] and re-exported here.
+pub use crate::properties::{BOILING_POINT_TOLERANCE, ComponentChecks, LATENT_HEAT_TOLERANCE};
 /// Molar gas constant, J/(mol·K): [`crate::units::GAS_CONSTANT`], re-exported here.
 pub use crate::units::GAS_CONSTANT;

@@ -3,79 +3,19 @@
 
 use super::antoine::{AntoineFit, published_constants};
 use super::cp::CpFit;
-use super::data::{BOILING_POINT_TOLERANCE, LATENT_HEAT_TOLERANCE};
 use super::error::{FitError, FitWarning};
 use super::extended::ExtendedFit;
 use super::report::FitReport;
 use crate::library::{Library, SCHEMA};
 use crate::properties::component::ComponentRecord;
-use crate::properties::{Antoine, AntoineForm, Component, ComponentError, LatentHeat, ValidityRange, VapourPressure};
-use crate::units::GAS_CONSTANT;
-use crate::units::{self};
-use serde::Serialize;
+use crate::properties::{
+    Antoine, AntoineForm, Component, ComponentChecks, ComponentError, ValidityRange, VapourPressure,
+};
 use serde_json::{Value, json};
 use std::collections::BTreeMap;
 use std::fmt;
 
-/// The consistency checks of a component at its normal boiling point, with their values.
-///
-/// ```
-/// use flashduty::fit::ComponentChecks;
-/// use flashduty::library::Library;
-/// let benzene = Library::builtin().get("benzene").unwrap();
-/// let c = ComponentChecks::of(benzene);
-/// assert!(c.boiling_point_passed(), "{c:?}");
-/// ```
-#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
-pub struct ComponentChecks {
-    /// The normal boiling point, K.
-    pub normal_boiling_point_k: f64,
-    /// Psat at Tb, Pa.
-    pub psat_at_boiling_point_pa: f64,
-    /// Psat(Tb)/101 325 Pa − 1.
-    pub psat_relative_deviation: f64,
-    /// [`BOILING_POINT_TOLERANCE`].
-    pub psat_tolerance: f64,
-    /// R Tb² d ln Psat/dT at Tb, J/mol.
-    pub clausius_clapeyron_latent_heat_j_per_mol: f64,
-    /// The latent-heat correlation at Tb, J/mol.
-    pub latent_heat_at_boiling_point_j_per_mol: f64,
-    /// Clausius–Clapeyron value / correlation − 1.
-    pub latent_heat_relative_deviation: f64,
-    /// [`LATENT_HEAT_TOLERANCE`].
-    pub latent_heat_tolerance: f64,
-}
-
 impl ComponentChecks {
-    /// Runs the checks on a component.
-    pub fn of(component: &Component) -> Self {
-        let tb = component.normal_boiling_point_k();
-        let (ln_p, slope) = component.vapour_pressure().ln_psat_with_slope(tb);
-        let psat = ln_p.exp();
-        let cc = GAS_CONSTANT * tb * tb * slope;
-        let dh = component.latent_heat().latent_heat(tb);
-        Self {
-            normal_boiling_point_k: tb,
-            psat_at_boiling_point_pa: psat,
-            psat_relative_deviation: psat / units::ATM_PA - 1.0,
-            psat_tolerance: BOILING_POINT_TOLERANCE,
-            clausius_clapeyron_latent_heat_j_per_mol: cc,
-            latent_heat_at_boiling_point_j_per_mol: dh,
-            latent_heat_relative_deviation: cc / dh - 1.0,
-            latent_heat_tolerance: LATENT_HEAT_TOLERANCE,
-        }
-    }
-
-    /// Whether Psat(Tb) is 101.325 kPa within tolerance.
-    pub fn boiling_point_passed(&self) -> bool {
-        self.psat_relative_deviation.abs() <= self.psat_tolerance
-    }
-
-    /// Whether the Clausius–Clapeyron latent heat agrees within tolerance.
-    pub fn latent_heat_passed(&self) -> bool {
-        self.latent_heat_relative_deviation.abs() <= self.latent_heat_tolerance
-    }
-
     /// The failed checks as warnings.
     pub fn failures(&self) -> Vec<FitWarning> {
         let mut out = Vec::new();

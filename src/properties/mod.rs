@@ -6,12 +6,14 @@
 //! implement them, and so can a caller's own model. Every correlation knows its validity
 //! range ([`ValidityRange`]) and can say when a call is extrapolated.
 
+mod checks;
 pub(crate) mod component;
 mod heat_capacity;
 mod latent_heat;
 mod vapour_pressure;
 mod virial;
 
+pub use checks::{BOILING_POINT_TOLERANCE, ComponentChecks, LATENT_HEAT_TOLERANCE};
 pub use component::{Component, ComponentError, Provenance, Sourced};
 pub use heat_capacity::{ConstantCp, HeatCapacity, HeatCapacityModel, PolynomialCp, ShomateCp};
 pub use latent_heat::{Dippr106, LatentHeat, LatentHeatModel, Watson};
