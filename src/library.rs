@@ -68,6 +68,22 @@ struct ComponentFile {
     components: Vec<serde_json::Value>,
 }
 
+/// A component file as written: the same schema that [`Library::add_json`] reads, through
+/// the same serde types.
+#[derive(Debug, Serialize)]
+pub(crate) struct ComponentFileOut<'a> {
+    pub schema: &'a str,
+    pub sources: &'a BTreeMap<String, String>,
+    pub components: Vec<&'a ComponentRecord>,
+}
+
+impl ComponentFileOut<'_> {
+    /// The file as JSON.
+    pub fn to_json(&self) -> serde_json::Value {
+        serde_json::to_value(self).unwrap_or(serde_json::Value::Null)
+    }
+}
+
 /// A set of components with look-up by name, synonym or CAS number.
 #[derive(Debug, Clone, Default)]
 pub struct Library {

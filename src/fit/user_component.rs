@@ -6,12 +6,14 @@ use super::cp::CpFit;
 use super::error::{FitError, FitWarning};
 use super::extended::ExtendedFit;
 use super::report::FitReport;
+use crate::library::ComponentFileOut;
 use crate::library::{Library, SCHEMA};
-use crate::properties::component::ComponentRecord;
-use crate::properties::{
-    Antoine, AntoineForm, Component, ComponentChecks, ComponentError, ValidityRange, VapourPressure,
+use crate::properties::Sourced;
+use crate::properties::component::{
+    ComponentRecord, HeatCapacityRecord, LatentHeatRecord, ProvenanceFields, VapourPressureRecord,
 };
-use serde_json::{Value, json};
+use crate::properties::{Antoine, AntoineForm, Component, ComponentChecks, ValidityRange, VapourPressure};
+use serde_json::Value;
 use std::collections::BTreeMap;
 use std::fmt;
 
@@ -318,31 +320,18 @@ impl UserComponentBuilder {
         self
     }
 
-    fn provenance(&self, field: &str) -> Value {
-        match self.citations.get(field) {
-            Some(c) => {
-                let mut v = json!({"source": c.source, "from_memory": c.from_memory});
-                if let Some(n) = &c.note {
-                    v["note"] = json!(n);
-                }
-                v
-            }
-            None => json!({"source": self.source_key, "from_memory": false}),
+    /// The provenance of `field`: its citation, else the user's source; `note` (a fit's
+    /// report) where the citation gives none.
+    fn provenance(&self, field: &str, note: Option<&String>) -> ProvenanceFields {
+        let (source, from_memory, cited_note) = match self.citations.get(field) {
+            Some(c) => (c.source.clone(), c.from_memory, c.note.clone()),
+            None => (self.source_key.clone(), false, None),
+        };
+        ProvenanceFields {
+            source,
+            from_memory,
+            note: cited_note.or_else(|| note.cloned()),
         }
-    }
-
-    fn merge(mut entry: Value, provenance: Value, note: Option<&String>) -> Value {
-        if let (Some(e), Some(p)) = (entry.as_object_mut(), provenance.as_object()) {
-            for (k, v) in p {
-                e.insert(k.clone(), v.clone());
-            }
-            if let Some(n) = note
-                && !e.contains_key("note")
-            {
-                e.insert("note".to_string(), json!(n));
-            }
-        }
-        entry
     }
 
     fn invalid(&self, field: &str, value: impl fmt::Display, why: &str) -> FitError {
@@ -365,12 +354,18 @@ impl UserComponentBuilder {
             component: self.name.clone(),
             field,
         };
-        let given = |field: &'static str, v: Option<f64>| -> Result<Value, FitError> {
-            let v = v.ok_or_else(|| missing(field))?;
-            if !v.is_finite() {
-                return Err(self.invalid(field, v, "must be a finite number"));
+        let given = |field: &'static str, v: Option<f64>| -> Result<Sourced, FitError> {
+            let value = v.ok_or_else(|| missing(field))?;
+            if !value.is_finite() {
+                return Err(self.invalid(field, value, "must be a finite number"));
             }
-            Ok(Self::merge(json!({"value": v}), self.provenance(field), None))
+            let p = self.provenance(field, None);
+            Ok(Sourced {
+                value,
+                source: p.source,
+                from_memory: p.from_memory,
+                note: p.note,
+            })
         };
         for field in self.citations.keys() {
             if !CITABLE_FIELDS.contains(&field.as_str()) {
@@ -395,37 +390,52 @@ impl UserComponentBuilder {
             VapourPressureEntry::Antoine { antoine, note } => {
                 let (a, b, c) = published_constants(antoine, self.antoine_form);
                 let r = antoine.validity();
-                let entry = json!({"form": "antoine", "units": self.antoine_form, "A": a, "B": b, "C": c,
-                    "T_min_K": r.min_k, "T_max_K": r.max_k});
-                Self::merge(entry, self.provenance("vapour_pressure"), note.as_ref())
+                VapourPressureRecord::Antoine {
+                    units: self.antoine_form,
+                    a,
+                    b,
+                    c,
+                    t_min_k: r.min_k,
+                    t_max_k: r.max_k,
+                    provenance: self.provenance("vapour_pressure", note.as_ref()),
+                }
             }
             VapourPressureEntry::Extended { constants, range, note } => {
                 let [a, b, c, d, e] = *constants;
-                let entry = json!({"form": "extended", "A": a, "B": b, "C": c, "D": d, "E": e,
-                    "T_min_K": range.min_k, "T_max_K": range.max_k});
-                Self::merge(entry, self.provenance("vapour_pressure"), note.as_ref())
+                VapourPressureRecord::Extended {
+                    a,
+                    b,
+                    c,
+                    d,
+                    e,
+                    t_min_k: range.min_k,
+                    t_max_k: range.max_k,
+                    provenance: self.provenance("vapour_pressure", note.as_ref()),
+                }
             }
         };
-        let cp = |field: &'static str, e: &Option<HeatCapacityEntry>| -> Result<Value, FitError> {
+        let cp = |field: &'static str, e: &Option<HeatCapacityEntry>| -> Result<HeatCapacityRecord, FitError> {
             Ok(match e.as_ref().ok_or_else(|| missing(field))? {
                 HeatCapacityEntry::Polynomial {
                     coefficients,
                     range,
                     note,
-                } => Self::merge(
-                    json!({"form": "polynomial", "coefficients": coefficients, "T_min_K": range.min_k, "T_max_K": range.max_k}),
-                    self.provenance(field),
-                    note.as_ref(),
-                ),
+                } => HeatCapacityRecord::Polynomial {
+                    coefficients: coefficients.clone(),
+                    t_min_k: range.min_k,
+                    t_max_k: range.max_k,
+                    provenance: self.provenance(field, note.as_ref()),
+                },
                 HeatCapacityEntry::Constant { value, range } => {
                     if !value.is_finite() {
                         return Err(self.invalid(field, value, "must be a finite number"));
                     }
-                    Self::merge(
-                        json!({"form": "constant", "value": value, "T_min_K": range.min_k, "T_max_K": range.max_k}),
-                        self.provenance(field),
-                        None,
-                    )
+                    HeatCapacityRecord::Constant {
+                        value: *value,
+                        t_min_k: range.min_k,
+                        t_max_k: range.max_k,
+                        provenance: self.provenance(field, None),
+                    }
                 }
             })
         };
@@ -437,34 +447,33 @@ impl UserComponentBuilder {
                 return Err(self.invalid(&format!("latent_heat.{what}"), v, "must be a finite number"));
             }
         }
-        let mut latent = json!({"form": "watson", "T_anchor_K": t_anchor, "value_J_per_mol": dh});
-        if let Some(n) = exponent {
-            if !n.is_finite() {
-                return Err(self.invalid("latent_heat.exponent", n, "must be a finite number"));
-            }
-            latent["exponent"] = json!(n);
+        if let Some(n) = exponent
+            && !n.is_finite()
+        {
+            return Err(self.invalid("latent_heat.exponent", n, "must be a finite number"));
         }
-        let latent = Self::merge(latent, self.provenance("latent_heat"), None);
+        let latent = LatentHeatRecord::Watson {
+            t_anchor_k: t_anchor,
+            value_j_per_mol: dh,
+            exponent,
+            provenance: self.provenance("latent_heat", None),
+        };
 
-        let record_json = json!({
-            "name": self.name,
-            "synonyms": self.synonyms,
-            "cas": self.cas,
-            "formula": self.formula,
-            "molar_mass_g_per_mol": molar_mass,
-            "critical_temperature_K": tc,
-            "critical_pressure_Pa": pc,
-            "acentric_factor": omega,
-            "normal_boiling_point_K": tb,
-            "vapour_pressure": vapour_pressure,
-            "liquid_heat_capacity": liquid_cp,
-            "vapour_heat_capacity": vapour_cp,
-            "latent_heat": latent,
-        });
-        let record: ComponentRecord = serde_json::from_value(record_json).map_err(|e| ComponentError::Parse {
-            file: format!("<user component '{}'>", self.name),
-            message: e.to_string(),
-        })?;
+        let record = ComponentRecord {
+            name: self.name.clone(),
+            synonyms: self.synonyms.clone(),
+            cas: self.cas.clone(),
+            formula: self.formula.clone(),
+            molar_mass_g_per_mol: molar_mass,
+            critical_temperature_k: tc,
+            critical_pressure_pa: pc,
+            acentric_factor: omega,
+            normal_boiling_point_k: tb,
+            vapour_pressure,
+            liquid_heat_capacity: liquid_cp,
+            vapour_heat_capacity: vapour_cp,
+            latent_heat: latent,
+        };
 
         // The bibliography: the user's source, added sources, and built-in keys cited.
         let mut sources = BTreeMap::new();
@@ -561,11 +570,12 @@ impl UserComponent {
 
     /// The component file: `schema`, the `sources` it cites, and the component.
     pub fn to_file_json(&self) -> Value {
-        json!({
-            "schema": SCHEMA,
-            "sources": self.sources,
-            "components": [self.component.to_json()],
-        })
+        ComponentFileOut {
+            schema: SCHEMA,
+            sources: &self.sources,
+            components: vec![self.component.record()],
+        }
+        .to_json()
     }
 
     /// The component file as pretty-printed JSON text, for [`Library::add_json`].

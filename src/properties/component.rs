@@ -166,11 +166,11 @@ pub(crate) enum VapourPressureRecord {
 /// Provenance fields flattened into correlation records.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub(crate) struct ProvenanceFields {
-    source: String,
+    pub(crate) source: String,
     #[serde(default)]
-    from_memory: bool,
+    pub(crate) from_memory: bool,
     #[serde(default, skip_serializing_if = "Option::is_none")]
-    note: Option<String>,
+    pub(crate) note: Option<String>,
 }
 
 impl From<&ProvenanceFields> for Provenance {
@@ -689,6 +689,11 @@ impl Component {
     pub fn provenance(&self) -> &[(String, Provenance)] {
         &self.provenance
     }
+    /// The record the component was built from (the component-file schema).
+    pub(crate) fn record(&self) -> &ComponentRecord {
+        &self.record
+    }
+
     /// The component written back in the component-file schema, as JSON.
     pub fn to_json(&self) -> serde_json::Value {
         serde_json::to_value(&self.record).unwrap_or(serde_json::Value::Null)
