@@ -16,7 +16,7 @@
 //! ```
 
 use crate::properties::component::ComponentRecord;
-use crate::properties::{Component, ComponentError};
+use crate::properties::{Component, ComponentError, ComponentKind, Gas};
 use serde::{Deserialize, Serialize};
 use std::collections::BTreeMap;
 use std::path::Path;
@@ -90,6 +90,9 @@ pub struct Library {
     components: Vec<Arc<Component>>,
     sources: BTreeMap<String, String>,
     index: BTreeMap<String, usize>,
+    /// Components of kind gas (`"kind": "gas"`), looked up apart: they have no vapour
+    /// pressure, so the K-value models of the condensable components cannot take them.
+    gases: Vec<Arc<Gas>>,
 }
 
 fn key(s: &str) -> String {
@@ -180,22 +183,31 @@ impl Library {
         let mut sources = self.sources.clone();
         sources.extend(parsed.sources.clone());
         let mut built = Vec::with_capacity(parsed.components.len());
+        let mut gases = Vec::new();
         for (i, value) in parsed.components.into_iter().enumerate() {
             let name = value
                 .get("name")
                 .and_then(|n| n.as_str())
                 .map_or_else(|| format!("#{}", i + 1), str::to_string);
-            let record: ComponentRecord = serde_json::from_value(value).map_err(|e| ComponentError::Parse {
+            let parse = |message: String| ComponentError::Parse {
                 file: file.to_string(),
-                message: format!("component '{name}': {e}"),
-            })?;
-            built.push(Component::from_record(record, &sources)?);
+                message: format!("component '{name}': {message}"),
+            };
+            let record: ComponentRecord = serde_json::from_value(value).map_err(|e| parse(e.to_string()))?;
+            record.check_kind().map_err(parse)?;
+            match record.kind {
+                ComponentKind::Gas => gases.push(Gas::from_record(record, &sources)?),
+                _ => built.push(Component::from_record(record, &sources)?),
+            }
         }
-        let count = built.len();
+        let count = built.len() + gases.len();
         let mut next = self.clone();
         next.sources = sources;
         for c in built {
             next.insert(c)?;
+        }
+        for g in gases {
+            next.insert_gas(g)?;
         }
         *self = next;
         Ok(count)
@@ -206,26 +218,73 @@ impl Library {
     /// # Errors
     /// [`ComponentError::Duplicate`] when its name, a synonym or its CAS number is taken.
     pub fn insert(&mut self, component: Component) -> Result<(), ComponentError> {
-        let keys: Vec<String> = std::iter::once(component.name())
-            .chain(component.synonyms().iter().map(String::as_str))
-            .chain(std::iter::once(component.cas()))
-            .map(key)
-            .collect();
-        for k in &keys {
-            if let Some(&i) = self.index.get(k) {
-                return Err(ComponentError::Duplicate {
-                    component: component.name().to_string(),
-                    key: k.clone(),
-                    other: self.components[i].name().to_string(),
-                });
-            }
-        }
+        let keys = self.free_keys(component.name(), component.synonyms(), component.cas())?;
         let i = self.components.len();
         self.components.push(Arc::new(component));
         for k in keys {
             self.index.insert(k, i);
         }
         Ok(())
+    }
+
+    /// The look-up keys of a new component or gas (its name, synonyms and CAS number),
+    /// each checked free among the components and gases already held.
+    fn free_keys(&self, name: &str, synonyms: &[String], cas: &str) -> Result<Vec<String>, ComponentError> {
+        let keys: Vec<String> = std::iter::once(name)
+            .chain(synonyms.iter().map(String::as_str))
+            .chain(std::iter::once(cas))
+            .map(key)
+            .collect();
+        for k in &keys {
+            let other = self
+                .index
+                .get(k)
+                .map(|&i| self.components[i].name())
+                .or_else(|| self.find_gas(k).map(|g| g.name()));
+            if let Some(other) = other {
+                return Err(ComponentError::Duplicate {
+                    component: name.to_string(),
+                    key: k.clone(),
+                    other: other.to_string(),
+                });
+            }
+        }
+        Ok(keys)
+    }
+
+    /// Adds one checked gas.
+    ///
+    /// # Errors
+    /// [`ComponentError::Duplicate`] when its name, a synonym or its CAS number is taken by a
+    /// component or another gas.
+    fn insert_gas(&mut self, gas: Gas) -> Result<(), ComponentError> {
+        self.free_keys(gas.name(), gas.synonyms(), gas.cas())?;
+        self.gases.push(Arc::new(gas));
+        Ok(())
+    }
+
+    /// The gas with look-up key `k` (already lower-cased and trimmed).
+    fn find_gas(&self, k: &str) -> Option<&Arc<Gas>> {
+        self.gases
+            .iter()
+            .find(|g| key(g.name()) == k || key(g.cas()) == k || g.synonyms().iter().any(|s| key(s) == k))
+    }
+
+    /// Looks a gas (a component of kind gas) up by name, synonym or CAS number, ignoring
+    /// case.
+    ///
+    /// # Errors
+    /// [`UnknownComponent`] (with no suggestions) when no gas has that name.
+    pub fn gas(&self, name: &str) -> Result<&Arc<Gas>, UnknownComponent> {
+        self.find_gas(&key(name)).ok_or_else(|| UnknownComponent {
+            name: name.to_string(),
+            suggestions: Vec::new(),
+        })
+    }
+
+    /// Every gas, in file order.
+    pub fn gases(&self) -> impl Iterator<Item = &Arc<Gas>> {
+        self.gases.iter()
     }
 
     /// Looks a component up by name, synonym or CAS number, ignoring case.

@@ -507,3 +507,111 @@ fn get_all_returns_in_order_or_first_error() {
     let err = lib.get_all(&["toluene", "benzen", "xyzzy"]).unwrap_err();
     assert_eq!(err.name, "benzen");
 }
+
+/// An invented gas in the component-file schema (`"kind": "gas"`): no vapour pressure,
+/// liquid heat capacity, latent heat or normal boiling point.
+fn gas_file() -> Value {
+    json!({
+        "schema": SCHEMA,
+        "sources": {
+            "invented": "Invented values for a unit test of the component loader; not physical data."
+        },
+        "components": [{
+            "name": "examplogen",
+            "kind": "gas",
+            "synonyms": ["X2"],
+            "cas": "0000-00-1",
+            "formula": "X2",
+            "molar_mass_g_per_mol": {"value": 30.0, "source": "invented"},
+            "critical_temperature_K": {"value": 150.0, "source": "invented"},
+            "critical_pressure_Pa": {"value": 4.0e6, "source": "invented"},
+            "acentric_factor": {"value": 0.03, "source": "invented"},
+            "vapour_heat_capacity": {"form": "constant", "value": 29.1, "T_min_K": 200.0, "T_max_K": 1000.0,
+                "source": "invented", "from_memory": false}
+        }]
+    })
+}
+
+#[test]
+fn the_schema_describes_a_gas_which_loads_apart_and_round_trips() {
+    let mut lib = Library::builtin().clone();
+    let before = lib.len();
+    assert_eq!(lib.add_json("gas.json", &gas_file().to_string()).unwrap(), 1);
+    assert_eq!(lib.len(), before, "a gas is not a condensable component");
+    let g = lib.gas("x2").unwrap().clone();
+    assert_eq!(
+        (g.name(), g.cas(), g.molar_mass_g_per_mol()),
+        ("examplogen", "0000-00-1", 30.0)
+    );
+    assert_eq!(
+        (
+            g.critical_temperature_k(),
+            g.critical_pressure_pa(),
+            g.acentric_factor()
+        ),
+        (150.0, 4.0e6, 0.03)
+    );
+    assert_eq!(g.vapour_heat_capacity().cp(300.0), 29.1);
+    assert_eq!(g.provenance().len(), 5);
+    // Not usable where a vapour pressure is needed.
+    assert!(lib.get("examplogen").is_err());
+    // Written back through the same serde types, and read again to the same gas.
+    let mut file = gas_file();
+    file["components"][0] = g.to_json();
+    let mut again = Library::default();
+    again.add_json("again.json", &file.to_string()).unwrap();
+    assert_eq!(again.gas("examplogen").unwrap().as_ref(), g.as_ref());
+    // A condensable component's record says nothing of its kind.
+    assert!(lib.get("benzene").unwrap().to_json().get("kind").is_none());
+}
+
+#[test]
+fn a_gas_with_condensable_data_or_bad_values_is_refused_naming_the_field() {
+    for (field, value) in [
+        ("vapour_pressure", valid_component()["vapour_pressure"].clone()),
+        ("latent_heat", valid_component()["latent_heat"].clone()),
+        (
+            "liquid_heat_capacity",
+            valid_component()["liquid_heat_capacity"].clone(),
+        ),
+        ("normal_boiling_point_K", json!({"value": 100.0, "source": "invented"})),
+    ] {
+        let mut f = gas_file();
+        f["components"][0][field] = value;
+        assert_parse(&add_json_err(&f.to_string()), "user.json", &[field, "gas"]);
+    }
+    let mut f = gas_file();
+    f["components"][0]["kind"] = json!("plasma");
+    assert_parse(&add_json_err(&f.to_string()), "user.json", &["plasma"]);
+    let invalid = |pointer: &str, value: Value, field_part: &str| {
+        let mut f = gas_file();
+        *f.pointer_mut(pointer).unwrap() = value;
+        match add_json_err(&f.to_string()) {
+            ComponentError::InvalidValue { component, field, .. } => {
+                assert_eq!(component, "examplogen");
+                assert!(field.contains(field_part), "{field}");
+            }
+            other => panic!("expected InvalidValue for {field_part}, got {other:?}"),
+        }
+    };
+    invalid(
+        "/components/0/vapour_heat_capacity/value",
+        json!(-1.0),
+        "vapour_heat_capacity",
+    );
+    invalid(
+        "/components/0/critical_pressure_Pa/value",
+        json!(0.0),
+        "critical_pressure_Pa",
+    );
+    let mut f = gas_file();
+    f["components"][0]["molar_mass_g_per_mol"]["source"] = json!("nowhere");
+    assert!(matches!(
+        add_json_err(&f.to_string()),
+        ComponentError::UnknownSource { .. }
+    ));
+    // A gas may not take a name the library already has, nor the reverse.
+    let mut f = gas_file();
+    f["components"][0]["synonyms"] = json!(["benzene"]);
+    assert!(matches!(add_json_err(&f.to_string()), ComponentError::Duplicate { .. }));
+}

@@ -8,11 +8,11 @@ use super::extended::ExtendedFit;
 use super::report::FitReport;
 use crate::library::ComponentFileOut;
 use crate::library::{Library, SCHEMA};
-use crate::properties::Sourced;
 use crate::properties::component::{
     ComponentRecord, HeatCapacityRecord, LatentHeatRecord, ProvenanceFields, VapourPressureRecord,
 };
 use crate::properties::{Antoine, AntoineForm, Component, ComponentChecks, ValidityRange, VapourPressure};
+use crate::properties::{ComponentKind, Sourced};
 use serde_json::Value;
 use std::collections::BTreeMap;
 use std::fmt;
@@ -461,6 +461,7 @@ impl UserComponentBuilder {
 
         let record = ComponentRecord {
             name: self.name.clone(),
+            kind: ComponentKind::Condensable,
             synonyms: self.synonyms.clone(),
             cas: self.cas.clone(),
             formula: self.formula.clone(),
@@ -468,11 +469,11 @@ impl UserComponentBuilder {
             critical_temperature_k: tc,
             critical_pressure_pa: pc,
             acentric_factor: omega,
-            normal_boiling_point_k: tb,
-            vapour_pressure,
-            liquid_heat_capacity: liquid_cp,
+            normal_boiling_point_k: Some(tb),
+            vapour_pressure: Some(vapour_pressure),
+            liquid_heat_capacity: Some(liquid_cp),
             vapour_heat_capacity: vapour_cp,
-            latent_heat: latent,
+            latent_heat: Some(latent),
         };
 
         // The bibliography: the user's source, added sources, and built-in keys cited.

@@ -267,11 +267,48 @@ pub(crate) enum LatentHeatRecord {
     },
 }
 
+/// What a component is: a condensable component (a vapour pressure, liquid heat capacity,
+/// latent heat and normal boiling point) or a gas, which has none of them and is described
+/// by what a dissolved gas needs: molar mass, critical constants, acentric factor and
+/// ideal-gas heat capacity. The schema key `kind`; absent means condensable.
+///
+/// ```
+/// use flashduty::properties::ComponentKind;
+/// assert_eq!(ComponentKind::default(), ComponentKind::Condensable);
+/// assert_eq!(serde_json::to_string(&ComponentKind::Gas).unwrap(), "\"gas\"");
+/// ```
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Default, Serialize, Deserialize)]
+#[serde(rename_all = "kebab-case")]
+#[non_exhaustive]
+pub enum ComponentKind {
+    /// Vapour pressure, liquid heat capacity, latent heat and normal boiling point given.
+    #[default]
+    Condensable,
+    /// None of those: a permanent gas or light end, for Henry's law.
+    Gas,
+}
+
+impl ComponentKind {
+    fn is_condensable(&self) -> bool {
+        *self == ComponentKind::Condensable
+    }
+}
+
+/// The schema fields a condensable component needs and a gas does not take.
+const CONDENSABLE_ONLY: [&str; 4] = [
+    "normal_boiling_point_K",
+    "vapour_pressure",
+    "liquid_heat_capacity",
+    "latent_heat",
+];
+
 /// One component as written in a component file.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub(crate) struct ComponentRecord {
     pub name: String,
+    #[serde(default, skip_serializing_if = "ComponentKind::is_condensable")]
+    pub kind: ComponentKind,
     #[serde(default)]
     pub synonyms: Vec<String>,
     pub cas: String,
@@ -282,12 +319,47 @@ pub(crate) struct ComponentRecord {
     #[serde(rename = "critical_pressure_Pa")]
     pub critical_pressure_pa: Sourced,
     pub acentric_factor: Sourced,
-    #[serde(rename = "normal_boiling_point_K")]
-    pub normal_boiling_point_k: Sourced,
-    pub vapour_pressure: VapourPressureRecord,
-    pub liquid_heat_capacity: HeatCapacityRecord,
+    #[serde(rename = "normal_boiling_point_K", default, skip_serializing_if = "Option::is_none")]
+    pub normal_boiling_point_k: Option<Sourced>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub vapour_pressure: Option<VapourPressureRecord>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub liquid_heat_capacity: Option<HeatCapacityRecord>,
     pub vapour_heat_capacity: HeatCapacityRecord,
-    pub latent_heat: LatentHeatRecord,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub latent_heat: Option<LatentHeatRecord>,
+}
+
+impl ComponentRecord {
+    /// Whether the condensable-only fields are all given (a condensable component) or all
+    /// absent (a gas); the message names the first field that is not, in the words of the
+    /// file parser's own errors.
+    pub(crate) fn check_kind(&self) -> Result<(), String> {
+        let given = [
+            self.normal_boiling_point_k.is_some(),
+            self.vapour_pressure.is_some(),
+            self.liquid_heat_capacity.is_some(),
+            self.latent_heat.is_some(),
+        ];
+        match self.kind {
+            ComponentKind::Condensable => match given.iter().position(|g| !g) {
+                Some(i) => Err(format!(
+                    "missing field `{}` (a condensable component needs {}; a gas says \"kind\": \"gas\")",
+                    CONDENSABLE_ONLY[i],
+                    CONDENSABLE_ONLY.join(", ")
+                )),
+                None => Ok(()),
+            },
+            ComponentKind::Gas => match given.iter().position(|g| *g) {
+                Some(i) => Err(format!(
+                    "field `{}` is not taken by a gas (\"kind\": \"gas\" has no vapour pressure, liquid heat \
+                     capacity, latent heat or normal boiling point)",
+                    CONDENSABLE_ONLY[i]
+                )),
+                None => Ok(()),
+            },
+        }
+    }
 }
 
 /// A checked pure component, ready for calculation.
@@ -408,32 +480,141 @@ fn heat_capacity_provenance(r: &HeatCapacityRecord) -> &ProvenanceFields {
     }
 }
 
+/// A finite, positive value of a record's field.
+fn positive(component: &str, field: &str, s: &Sourced) -> Result<f64, ComponentError> {
+    if s.value.is_finite() && s.value > 0.0 {
+        Ok(s.value)
+    } else {
+        Err(invalid(component, field, s.value, "must be finite and positive"))
+    }
+}
+
+/// A heat capacity that is positive inside its range (tested at its middle, the top of the
+/// range capped at 2 Tc).
+fn positive_cp(component: &str, field: &str, model: &HeatCapacityModel, tc: f64) -> Result<(), ComponentError> {
+    let mid = 0.5 * (model.validity().min_k + model.validity().max_k.min(2.0 * tc));
+    if model.cp(mid).partial_cmp(&0.0) != Some(std::cmp::Ordering::Greater) {
+        return Err(invalid(
+            component,
+            field,
+            mid,
+            "heat capacity is not positive inside its range",
+        ));
+    }
+    Ok(())
+}
+
+/// Every source key of `provenance` must be in the file's bibliography.
+fn check_sources(
+    component: &str,
+    provenance: &[(String, Provenance)],
+    sources: &std::collections::BTreeMap<String, String>,
+) -> Result<(), ComponentError> {
+    for (field, p) in provenance {
+        if !sources.contains_key(&p.source) {
+            return Err(ComponentError::UnknownSource {
+                component: component.to_string(),
+                field: field.clone(),
+                source_key: p.source.clone(),
+            });
+        }
+    }
+    Ok(())
+}
+
+/// What every kind of component has, checked: identity, molar mass, critical constants,
+/// acentric factor and the ideal-gas heat capacity, with their provenance in schema order.
+struct Identity {
+    name: String,
+    synonyms: Vec<String>,
+    cas: String,
+    formula: String,
+    molar_mass: f64,
+    tc: f64,
+    pc: f64,
+    omega: f64,
+    vapour_cp: HeatCapacityModel,
+    provenance: Vec<(String, Provenance)>,
+}
+
+impl Identity {
+    fn of(record: &ComponentRecord) -> Result<Self, ComponentError> {
+        let name = record.name.trim().to_string();
+        if name.is_empty() {
+            return Err(invalid("<unnamed>", "name", "\"\"", "must not be empty"));
+        }
+        let n = name.as_str();
+        let molar_mass = positive(n, "molar_mass_g_per_mol", &record.molar_mass_g_per_mol)?;
+        let tc = positive(n, "critical_temperature_K", &record.critical_temperature_k)?;
+        let pc = positive(n, "critical_pressure_Pa", &record.critical_pressure_pa)?;
+        let omega = record.acentric_factor.value;
+        if !(omega.is_finite() && (-1.0..=2.0).contains(&omega)) {
+            return Err(invalid(n, "acentric_factor", omega, "must lie in [-1, 2]"));
+        }
+        if record.cas.trim().is_empty() {
+            return Err(invalid(n, "cas", "\"\"", "must not be empty"));
+        }
+        let vapour_cp = heat_capacity(n, "vapour_heat_capacity", &record.vapour_heat_capacity)?;
+        positive_cp(n, "vapour_heat_capacity", &vapour_cp, tc)?;
+        let provenance = vec![
+            (
+                "molar_mass_g_per_mol".to_string(),
+                record.molar_mass_g_per_mol.provenance(),
+            ),
+            (
+                "critical_temperature_K".to_string(),
+                record.critical_temperature_k.provenance(),
+            ),
+            (
+                "critical_pressure_Pa".to_string(),
+                record.critical_pressure_pa.provenance(),
+            ),
+            ("acentric_factor".to_string(), record.acentric_factor.provenance()),
+            (
+                "vapour_heat_capacity".to_string(),
+                heat_capacity_provenance(&record.vapour_heat_capacity).into(),
+            ),
+        ];
+        Ok(Self {
+            synonyms: record.synonyms.iter().map(|s| s.trim().to_string()).collect(),
+            cas: record.cas.trim().to_string(),
+            formula: record.formula.clone(),
+            name,
+            molar_mass,
+            tc,
+            pc,
+            omega,
+            vapour_cp,
+            provenance,
+        })
+    }
+}
+
 impl Component {
     /// Checks a record and builds the component. `sources` is the file's bibliography.
     pub(crate) fn from_record(
         record: ComponentRecord,
         sources: &std::collections::BTreeMap<String, String>,
     ) -> Result<Self, ComponentError> {
-        let name = record.name.trim().to_string();
-        if name.is_empty() {
-            return Err(invalid("<unnamed>", "name", "\"\"", "must not be empty"));
-        }
+        let id = Identity::of(&record)?;
+        let (molar_mass, tc, pc, omega) = (id.molar_mass, id.tc, id.pc, id.omega);
+        let name = id.name.clone();
         let n = name.as_str();
-        let positive = |field: &str, s: &Sourced| -> Result<f64, ComponentError> {
-            if s.value.is_finite() && s.value > 0.0 {
-                Ok(s.value)
-            } else {
-                Err(invalid(n, field, s.value, "must be finite and positive"))
-            }
+        let (Some(tb_record), Some(vp_record), Some(liquid_cp_record), Some(latent_record)) = (
+            &record.normal_boiling_point_k,
+            &record.vapour_pressure,
+            &record.liquid_heat_capacity,
+            &record.latent_heat,
+        ) else {
+            let why = record.check_kind().err().unwrap_or_default();
+            return Err(invalid(
+                n,
+                "kind",
+                "gas",
+                &format!("not a condensable component: {why}"),
+            ));
         };
-        let molar_mass = positive("molar_mass_g_per_mol", &record.molar_mass_g_per_mol)?;
-        let tc = positive("critical_temperature_K", &record.critical_temperature_k)?;
-        let pc = positive("critical_pressure_Pa", &record.critical_pressure_pa)?;
-        let tb = positive("normal_boiling_point_K", &record.normal_boiling_point_k)?;
-        let omega = record.acentric_factor.value;
-        if !(omega.is_finite() && (-1.0..=2.0).contains(&omega)) {
-            return Err(invalid(n, "acentric_factor", omega, "must lie in [-1, 2]"));
-        }
+        let tb = positive(n, "normal_boiling_point_K", tb_record)?;
         if tc <= tb {
             return Err(invalid(
                 n,
@@ -442,11 +623,7 @@ impl Component {
                 &format!("must exceed the normal boiling point {tb} K"),
             ));
         }
-        if record.cas.trim().is_empty() {
-            return Err(invalid(n, "cas", "\"\"", "must not be empty"));
-        }
-
-        let vapour_pressure = match &record.vapour_pressure {
+        let vapour_pressure = match vp_record {
             VapourPressureRecord::Antoine {
                 units,
                 a,
@@ -492,9 +669,9 @@ impl Component {
                 "does not rise with temperature at the boiling point",
             ));
         }
-        let liquid_cp = heat_capacity(n, "liquid_heat_capacity", &record.liquid_heat_capacity)?;
-        let vapour_cp = heat_capacity(n, "vapour_heat_capacity", &record.vapour_heat_capacity)?;
-        let latent_heat = match &record.latent_heat {
+        let liquid_cp = heat_capacity(n, "liquid_heat_capacity", liquid_cp_record)?;
+        let vapour_cp = id.vapour_cp;
+        let latent_heat = match latent_record {
             LatentHeatRecord::Watson {
                 t_anchor_k,
                 value_j_per_mol,
@@ -548,15 +725,7 @@ impl Component {
                 )?)
             }
         };
-        for (field, model) in [
-            ("liquid_heat_capacity", &liquid_cp),
-            ("vapour_heat_capacity", &vapour_cp),
-        ] {
-            let mid = 0.5 * (model.validity().min_k + model.validity().max_k.min(2.0 * tc));
-            if model.cp(mid).partial_cmp(&0.0) != Some(std::cmp::Ordering::Greater) {
-                return Err(invalid(n, field, mid, "heat capacity is not positive inside its range"));
-            }
-        }
+        positive_cp(n, "liquid_heat_capacity", &liquid_cp, tc)?;
         if latent_heat.latent_heat(tb).partial_cmp(&0.0) != Some(std::cmp::Ordering::Greater) {
             return Err(invalid(
                 n,
@@ -567,57 +736,31 @@ impl Component {
         }
 
         // Every source key must resolve.
-        let mut provenance = vec![
-            (
-                "molar_mass_g_per_mol".to_string(),
-                record.molar_mass_g_per_mol.provenance(),
-            ),
-            (
-                "critical_temperature_K".to_string(),
-                record.critical_temperature_k.provenance(),
-            ),
-            (
-                "critical_pressure_Pa".to_string(),
-                record.critical_pressure_pa.provenance(),
-            ),
-            ("acentric_factor".to_string(), record.acentric_factor.provenance()),
-            (
-                "normal_boiling_point_K".to_string(),
-                record.normal_boiling_point_k.provenance(),
-            ),
-        ];
-        let vp = match &record.vapour_pressure {
+        let mut provenance = id.provenance.clone();
+        provenance.insert(4, ("normal_boiling_point_K".to_string(), tb_record.provenance()));
+        let vp = match vp_record {
             VapourPressureRecord::Antoine { provenance, .. } | VapourPressureRecord::Extended { provenance, .. } => {
                 provenance
             }
         };
-        provenance.push(("vapour_pressure".to_string(), vp.into()));
-        provenance.push((
-            "liquid_heat_capacity".to_string(),
-            heat_capacity_provenance(&record.liquid_heat_capacity).into(),
-        ));
-        provenance.push((
-            "vapour_heat_capacity".to_string(),
-            heat_capacity_provenance(&record.vapour_heat_capacity).into(),
-        ));
-        let lh = match &record.latent_heat {
+        provenance.insert(5, ("vapour_pressure".to_string(), vp.into()));
+        provenance.insert(
+            6,
+            (
+                "liquid_heat_capacity".to_string(),
+                heat_capacity_provenance(liquid_cp_record).into(),
+            ),
+        );
+        let lh = match latent_record {
             LatentHeatRecord::Watson { provenance, .. } | LatentHeatRecord::Dippr106 { provenance, .. } => provenance,
         };
         provenance.push(("latent_heat".to_string(), lh.into()));
-        for (field, p) in &provenance {
-            if !sources.contains_key(&p.source) {
-                return Err(ComponentError::UnknownSource {
-                    component: name.clone(),
-                    field: field.clone(),
-                    source_key: p.source.clone(),
-                });
-            }
-        }
+        check_sources(n, &provenance, sources)?;
 
         Ok(Self {
-            synonyms: record.synonyms.iter().map(|s| s.trim().to_string()).collect(),
-            cas: record.cas.trim().to_string(),
-            formula: record.formula.clone(),
+            synonyms: id.synonyms,
+            cas: id.cas,
+            formula: id.formula,
             name,
             molar_mass_g_per_mol: molar_mass,
             critical_temperature_k: tc,
@@ -695,6 +838,118 @@ impl Component {
     }
 
     /// The component written back in the component-file schema, as JSON.
+    pub fn to_json(&self) -> serde_json::Value {
+        serde_json::to_value(&self.record).unwrap_or(serde_json::Value::Null)
+    }
+}
+
+/// A checked gas: a component with no vapour pressure, liquid heat capacity or latent heat,
+/// described by what a gas dissolved in a liquid needs (molar mass, critical constants,
+/// acentric factor, ideal-gas heat capacity), from a component-file record with
+/// `"kind": "gas"`. The built-in library holds none yet; a user's component file may.
+///
+/// ```
+/// use flashduty::library::Library;
+/// let file = r#"{"schema": "flashduty-components/1",
+///   "sources": {"invented": "Invented for this example, not data."},
+///   "components": [{"name": "examplogen", "kind": "gas", "cas": "0-00-0", "formula": "X2",
+///     "molar_mass_g_per_mol": {"value": 30.0, "source": "invented"},
+///     "critical_temperature_K": {"value": 150.0, "source": "invented"},
+///     "critical_pressure_Pa": {"value": 4.0e6, "source": "invented"},
+///     "acentric_factor": {"value": 0.03, "source": "invented"},
+///     "vapour_heat_capacity": {"form": "constant", "value": 29.1, "T_min_K": 200, "T_max_K": 1000,
+///       "source": "invented"}}]}"#;
+/// let mut lib = Library::default();
+/// assert_eq!(lib.add_json("gas.json", file).unwrap(), 1);
+/// let gas = lib.gas("examplogen").unwrap();
+/// assert_eq!(gas.critical_temperature_k(), 150.0);
+/// // A gas is not a condensable component: Raoult's law cannot take it.
+/// assert!(lib.get("examplogen").is_err());
+/// // It is written back through the same schema.
+/// assert_eq!(gas.to_json()["kind"], "gas");
+/// ```
+#[derive(Debug, Clone, PartialEq)]
+pub struct Gas {
+    name: String,
+    synonyms: Vec<String>,
+    cas: String,
+    formula: String,
+    molar_mass_g_per_mol: f64,
+    critical_temperature_k: f64,
+    critical_pressure_pa: f64,
+    acentric_factor: f64,
+    vapour_cp: HeatCapacityModel,
+    provenance: Vec<(String, Provenance)>,
+    record: ComponentRecord,
+}
+
+impl Gas {
+    /// Checks a record of kind gas and builds it. `sources` is the file's bibliography.
+    pub(crate) fn from_record(
+        record: ComponentRecord,
+        sources: &std::collections::BTreeMap<String, String>,
+    ) -> Result<Self, ComponentError> {
+        let id = Identity::of(&record)?;
+        if let Err(why) = record.check_kind() {
+            return Err(invalid(&id.name, "kind", "gas", &why));
+        }
+        check_sources(&id.name, &id.provenance, sources)?;
+        Ok(Self {
+            name: id.name,
+            synonyms: id.synonyms,
+            cas: id.cas,
+            formula: id.formula,
+            molar_mass_g_per_mol: id.molar_mass,
+            critical_temperature_k: id.tc,
+            critical_pressure_pa: id.pc,
+            acentric_factor: id.omega,
+            vapour_cp: id.vapour_cp,
+            provenance: id.provenance,
+            record,
+        })
+    }
+
+    /// The gas's name as the library spells it.
+    pub fn name(&self) -> &str {
+        &self.name
+    }
+    /// Other accepted names.
+    pub fn synonyms(&self) -> &[String] {
+        &self.synonyms
+    }
+    /// CAS registry number.
+    pub fn cas(&self) -> &str {
+        &self.cas
+    }
+    /// Molecular formula.
+    pub fn formula(&self) -> &str {
+        &self.formula
+    }
+    /// Molar mass, g/mol.
+    pub fn molar_mass_g_per_mol(&self) -> f64 {
+        self.molar_mass_g_per_mol
+    }
+    /// Critical temperature, K.
+    pub fn critical_temperature_k(&self) -> f64 {
+        self.critical_temperature_k
+    }
+    /// Critical pressure, Pa.
+    pub fn critical_pressure_pa(&self) -> f64 {
+        self.critical_pressure_pa
+    }
+    /// Acentric factor (dimensionless).
+    pub fn acentric_factor(&self) -> f64 {
+        self.acentric_factor
+    }
+    /// The ideal-gas heat-capacity correlation, J/(mol·K).
+    pub fn vapour_heat_capacity(&self) -> &HeatCapacityModel {
+        &self.vapour_cp
+    }
+    /// Each field's provenance, in schema order: `(field name, provenance)`.
+    pub fn provenance(&self) -> &[(String, Provenance)] {
+        &self.provenance
+    }
+    /// The gas written back in the component-file schema, as JSON.
     pub fn to_json(&self) -> serde_json::Value {
         serde_json::to_value(&self.record).unwrap_or(serde_json::Value::Null)
     }
