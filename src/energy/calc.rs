@@ -15,8 +15,8 @@ use super::reference::VaporisationPath;
 use super::result::{DutyResult, EnergyError, EnthalpyRow, PathSpread};
 use super::stream::{Stream, StreamState};
 use crate::equilibrium::{
-    FlashBuffers, FlashError, FlashSpec, KValueModel, Raoult, SEARCH_MAX_TEMPERATURE_K, SEARCH_MIN_TEMPERATURE_K,
-    SolvedState, amount_slopes, flash_into, flash_result, saturation_temperature, sensitivity,
+    FlashError, FlashSpec, KValueModel, Raoult, SEARCH_MAX_TEMPERATURE_K, SEARCH_MIN_TEMPERATURE_K, SolvedFlash,
+    amount_slopes, flash_into, flash_result, saturation_temperature, sensitivity,
 };
 use crate::properties::Component;
 use crate::rachford_rice::Phase;
@@ -34,48 +34,15 @@ pub(crate) const WIDE_TWO_PHASE_K: f64 = 1.0;
 /// two-phase region.
 const VAPOUR_FRACTION_TOLERANCE: f64 = 1e-13;
 
-/// A flashed state and the buffers holding its K-values and compositions.
-#[derive(Debug, Clone)]
-pub(crate) struct Solved {
-    pub state: SolvedState,
-    pub buffers: FlashBuffers,
-}
-
-impl Solved {
-    pub fn new(n: usize) -> Self {
-        Self {
-            state: SolvedState::UNSET,
-            buffers: FlashBuffers::new(n),
-        }
-    }
-
-    pub fn summary(&self) -> StateSummary {
-        let s = &self.state;
-        StateSummary {
-            phase: s.phase,
-            temperature_k: s.t,
-            pressure_pa: s.p,
-            vapour_fraction: s.beta,
-            liquid_fraction: s.liquid_fraction,
-        }
-    }
-
-    /// Reports a state found on the single-phase side of a bubble or dew point as that
-    /// phase: round-off can put its T–P flash a hair into the two-phase region, where β is
-    /// then 1e-15.
-    fn force_single(&mut self, phase: Phase, z: &[f64]) {
-        let s = &mut self.state;
-        if s.phase == phase {
-            return;
-        }
-        s.phase = phase;
-        if phase == Phase::Liquid {
-            (s.beta, s.liquid_fraction, s.has_liquid, s.has_vapour) = (0.0, 1.0, true, false);
-            self.buffers.x.copy_from_slice(z);
-        } else {
-            (s.beta, s.liquid_fraction, s.has_liquid, s.has_vapour) = (1.0, 0.0, false, true);
-            self.buffers.y.copy_from_slice(z);
-        }
+/// The summary of a flashed state that [`DutyCalculator`](super::DutyCalculator) returns.
+fn state_summary(s: &SolvedFlash) -> StateSummary {
+    let s = &s.state;
+    StateSummary {
+        phase: s.phase,
+        temperature_k: s.t,
+        pressure_pa: s.p,
+        vapour_fraction: s.beta,
+        liquid_fraction: s.liquid_fraction,
     }
 }
 
@@ -200,9 +167,9 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
         &self,
         spec: FlashSpec,
         t_bracket: Option<(f64, f64)>,
-        out: &mut Solved,
+        out: &mut SolvedFlash,
     ) -> Result<(), EnergyError> {
-        out.state = flash_into(&self.k_model, &self.zn, spec, t_bracket, &mut out.buffers)?;
+        flash_into(&self.k_model, &self.zn, spec, t_bracket, out)?;
         Ok(())
     }
 
@@ -212,7 +179,12 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
     /// [`EnergyError::Unit`] for a given temperature outside the 1–10 000 K the energy
     /// calculations work over (the correlations can overflow beyond it); otherwise as the
     /// flash.
-    pub fn flash_state(&self, which: &'static str, state: StreamState, out: &mut Solved) -> Result<(), EnergyError> {
+    pub fn flash_state(
+        &self,
+        which: &'static str,
+        state: StreamState,
+        out: &mut SolvedFlash,
+    ) -> Result<(), EnergyError> {
         if let StreamState::TemperaturePressure { temperature, .. }
         | StreamState::TemperatureVapourFraction { temperature, .. } = state
         {
@@ -231,7 +203,7 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
     }
 
     /// The T–P flash of the stream at `t_k` and `p` into `out`.
-    pub(super) fn tp_into(&self, t_k: f64, p: Pressure, out: &mut Solved) -> Result<(), EnergyError> {
+    pub(super) fn tp_into(&self, t_k: f64, p: Pressure, out: &mut SolvedFlash) -> Result<(), EnergyError> {
         let spec = FlashSpec::TemperaturePressure {
             temperature: Temperature::new("T", t_k)?,
             pressure: p,
@@ -241,29 +213,25 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
 
     /// Amounts of component `i` in the liquid and vapour, per mole of stream.
     #[inline(always)]
-    fn amounts(&self, s: &Solved, i: usize) -> (f64, f64) {
+    fn amounts(&self, s: &SolvedFlash, i: usize) -> (f64, f64) {
         let z = self.z();
         match s.state.phase {
             Phase::Liquid => (z[i], 0.0),
             Phase::Vapour => (0.0, z[i]),
             Phase::TwoPhase => {
                 let l = if s.state.has_liquid {
-                    s.state.liquid_fraction * s.buffers.x[i]
+                    s.state.liquid_fraction * s.x[i]
                 } else {
                     0.0
                 };
-                let v = if s.state.has_vapour {
-                    s.state.beta * s.buffers.y[i]
-                } else {
-                    0.0
-                };
+                let v = if s.state.has_vapour { s.state.beta * s.y[i] } else { 0.0 };
                 (l, v)
             }
         }
     }
 
     /// Per mole of stream: Σ over components and phases of amount × enthalpy.
-    pub fn enthalpy(&self, s: &Solved) -> f64 {
+    pub fn enthalpy(&self, s: &SolvedFlash) -> f64 {
         let Some(m) = self.ideal() else {
             return self.general_enthalpy(s);
         };
@@ -273,7 +241,7 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
     /// Per mole of stream: the ideal-mixing model `m`'s enthalpy of the state, its
     /// second-virial departures included.
     #[inline]
-    fn ideal_enthalpy(&self, m: &EnthalpyModel, s: &Solved) -> f64 {
+    fn ideal_enthalpy(&self, m: &EnthalpyModel, s: &SolvedFlash) -> f64 {
         let h = self.enthalpy_with(m.table(), m.components(), s);
         match m.table().virial(m.components()) {
             Some(v) => h + self.departure(v, s),
@@ -282,7 +250,7 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
     }
 
     /// The phases of a state: (phase, amount per mole of stream, composition).
-    fn phases<'s>(&'s self, s: &'s Solved) -> [(Phase, f64, &'s [f64]); 2] {
+    fn phases<'s>(&'s self, s: &'s SolvedFlash) -> [(Phase, f64, &'s [f64]); 2] {
         let st = &s.state;
         match st.phase {
             Phase::Liquid => [(Phase::Liquid, 1.0, self.z()), (Phase::Vapour, 0.0, &[])],
@@ -291,16 +259,16 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
                 (
                     Phase::Liquid,
                     if st.has_liquid { st.liquid_fraction } else { 0.0 },
-                    &s.buffers.x,
+                    &s.x,
                 ),
-                (Phase::Vapour, if st.has_vapour { st.beta } else { 0.0 }, &s.buffers.y),
+                (Phase::Vapour, if st.has_vapour { st.beta } else { 0.0 }, &s.y),
             ],
         }
     }
 
     /// [`Self::enthalpy`] for any phase-enthalpy model: Σ over phases of amount × the
     /// phase's molar enthalpy.
-    fn general_enthalpy(&self, s: &Solved) -> f64 {
+    fn general_enthalpy(&self, s: &SolvedFlash) -> f64 {
         let (t, p) = (s.state.t, s.state.p);
         let mut total = 0.0;
         for (phase, amount, x) in self.phases(s) {
@@ -314,7 +282,7 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
     /// Per mole of stream: Σ over components and phases of amount × second-virial
     /// departure, at the state's temperature and pressure.
     #[inline(never)]
-    fn departure(&self, v: Departures<'_>, s: &Solved) -> f64 {
+    fn departure(&self, v: Departures<'_>, s: &SolvedFlash) -> f64 {
         let (t, p) = (s.state.t, s.state.p);
         let mut total = 0.0;
         for i in 0..self.component_count() {
@@ -329,7 +297,7 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
         total
     }
 
-    fn enthalpy_with(&self, table: &PathTable, components: &[Arc<Component>], s: &Solved) -> f64 {
+    fn enthalpy_with(&self, table: &PathTable, components: &[Arc<Component>], s: &SolvedFlash) -> f64 {
         let t = s.state.t;
         let mut total = 0.0;
         for i in 0..self.component_count() {
@@ -375,7 +343,7 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
 
     /// Adds the second-virial range warnings of the state (none under an ideal-gas
     /// vapour); `warned` keeps one byte per component across calls.
-    pub fn vapour_model_warnings(&self, s: &Solved, warned: &mut [u8], out: &mut Vec<Warning>) {
+    pub fn vapour_model_warnings(&self, s: &SolvedFlash, warned: &mut [u8], out: &mut Vec<Warning>) {
         let Some(base) = self.base() else {
             return;
         };
@@ -392,7 +360,7 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
     }
 
     /// Adds the K-value model's warnings at the state (those of its flash result).
-    pub fn flash_warnings(&self, s: &Solved, out: &mut Vec<Warning>) {
+    pub fn flash_warnings(&self, s: &SolvedFlash, out: &mut Vec<Warning>) {
         self.k_model.warnings(s.state.t, s.state.p, out);
     }
 
@@ -407,7 +375,7 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
     /// ideal mixing: H = Σ over phases of nₚ hₚ(T, xₚ), and
     /// dH/dT = Σₚ nₚ ∂hₚ/∂T + Σᵢ (h̄ⱽᵢ − h̄ᴸᵢ) dvᵢ/dT, with the partial molar enthalpies h̄ and
     /// dvᵢ/dT from the equilibrium conditions in full.
-    pub fn enthalpy_and_slope(&self, s: &Solved) -> (f64, f64) {
+    pub fn enthalpy_and_slope(&self, s: &SolvedFlash) -> (f64, f64) {
         let m = match self.ideal() {
             Some(m) if !self.k_model.is_composition_dependent() => m,
             _ => return self.general_enthalpy_and_slope(s),
@@ -424,7 +392,7 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
     }
 
     /// [`Self::enthalpy_and_slope`] for any pair of models.
-    fn general_enthalpy_and_slope(&self, s: &Solved) -> (f64, f64) {
+    fn general_enthalpy_and_slope(&self, s: &SolvedFlash) -> (f64, f64) {
         let (t, p) = (s.state.t, s.state.p);
         let n = self.component_count();
         let (mut h, mut slope) = (0.0, 0.0);
@@ -437,12 +405,12 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
         }
         if s.state.phase == Phase::TwoPhase && s.state.has_liquid && s.state.has_vapour {
             let (mut dv_dt, mut dv_dp) = (vec![0.0; n], vec![0.0; n]);
-            if amount_slopes(&self.k_model, &self.zn, &s.state, &s.buffers, &mut dv_dt, &mut dv_dp) {
+            if amount_slopes(&self.k_model, &self.zn, s, &mut dv_dt, &mut dv_dp) {
                 let (mut h_liquid, mut h_vapour) = (vec![0.0; n], vec![0.0; n]);
                 self.enthalpy
-                    .partial_molar_enthalpies(Phase::Liquid, &s.buffers.x, t, p, &mut h_liquid);
+                    .partial_molar_enthalpies(Phase::Liquid, &s.x, t, p, &mut h_liquid);
                 self.enthalpy
-                    .partial_molar_enthalpies(Phase::Vapour, &s.buffers.y, t, p, &mut h_vapour);
+                    .partial_molar_enthalpies(Phase::Vapour, &s.y, t, p, &mut h_vapour);
                 for i in 0..n {
                     slope += dv_dt[i] * (h_vapour[i] - h_liquid[i]);
                 }
@@ -452,18 +420,18 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
     }
 
     /// dβ/dT at constant pressure of a state flashed at T and P (0 unless two-phase).
-    fn vapour_fraction_slope(&self, s: &Solved) -> f64 {
+    fn vapour_fraction_slope(&self, s: &SolvedFlash) -> f64 {
         let st = &s.state;
         if st.phase != Phase::TwoPhase {
             return 0.0;
         }
-        sensitivity(&self.zn, &s.buffers.kv, st.beta, st.liquid_fraction).map_or(0.0, |s| s.dvapour_fraction_dt_per_k)
+        sensitivity(&self.zn, &s.kv, st.beta, st.liquid_fraction).map_or(0.0, |s| s.dvapour_fraction_dt_per_k)
     }
 
     /// dvᵢ/dT of a two-phase state, from dβ/dT: (zᵢ/dᵢ)(Kᵢ/dᵢ)(dβ/dT + β(1 − β) ∂ln Kᵢ/∂T).
     #[inline]
-    fn vapour_amount_slope(&self, s: &Solved, i: usize, dbeta_dt: f64) -> f64 {
-        let (st, kv) = (&s.state, &s.buffers.kv);
+    fn vapour_amount_slope(&self, s: &SolvedFlash, i: usize, dbeta_dt: f64) -> f64 {
+        let (st, kv) = (&s.state, &s.kv);
         let (beta, lf) = (st.beta, st.liquid_fraction);
         let k = kv.k[i];
         let d = lf + beta * k;
@@ -473,7 +441,7 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
     /// [`Self::enthalpy_and_slope`] without the second-virial departures: the ideal-gas
     /// vapour's, or the rest of the second virial's.
     #[inline]
-    fn ideal_enthalpy_and_slope(&self, m: &EnthalpyModel, s: &Solved, dbeta_dt: f64) -> (f64, f64) {
+    fn ideal_enthalpy_and_slope(&self, m: &EnthalpyModel, s: &SolvedFlash, dbeta_dt: f64) -> (f64, f64) {
         let (table, components) = (m.table(), m.components());
         let t = s.state.t;
         let two_phase = s.state.phase == Phase::TwoPhase;
@@ -508,7 +476,7 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
     /// constant, the vapour's changes with T at constant P, and a two-phase state moves
     /// dvᵢ/dT between them.
     #[inline(never)]
-    fn departure_and_slope(&self, departures: Departures<'_>, s: &Solved, dbeta_dt: f64) -> (f64, f64) {
+    fn departure_and_slope(&self, departures: Departures<'_>, s: &SolvedFlash, dbeta_dt: f64) -> (f64, f64) {
         let (t, p) = (s.state.t, s.state.p);
         let two_phase = s.state.phase == Phase::TwoPhase;
         let (mut dh, mut dslope) = (0.0, 0.0);
@@ -535,7 +503,7 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
 
     /// The duty and states of a change from `inlet` to `outlet`; dQ/dT at the outlet where
     /// `outlet_tp` (the outlet was flashed at T and P).
-    pub fn summary(&self, inlet: &Solved, outlet: &Solved, outlet_tp: bool) -> DutySummary {
+    pub fn summary(&self, inlet: &SolvedFlash, outlet: &SolvedFlash, outlet_tp: bool) -> DutySummary {
         let flow = self.flow();
         let h_in = self.enthalpy(inlet);
         let (h_out, dq) = if outlet_tp {
@@ -546,8 +514,8 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
         };
         DutySummary {
             duty_w: flow * (h_out - h_in),
-            inlet: inlet.summary(),
-            outlet: outlet.summary(),
+            inlet: state_summary(inlet),
+            outlet: state_summary(outlet),
             inlet_enthalpy_j_per_mol: h_in,
             outlet_enthalpy_j_per_mol: h_out,
             dduty_dt_out_w_per_k: dq,
@@ -560,7 +528,7 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
     fn rows(
         &self,
         state: &'static str,
-        s: &Solved,
+        s: &SolvedFlash,
         out: &mut Vec<EnthalpyRow>,
         warned: &mut [u8],
         warnings: &mut Vec<Warning>,
@@ -605,7 +573,7 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
     fn general_rows(
         &self,
         state: &'static str,
-        s: &Solved,
+        s: &SolvedFlash,
         out: &mut Vec<EnthalpyRow>,
         warned: &mut [u8],
         warnings: &mut Vec<Warning>,
@@ -659,7 +627,7 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
     /// For a model that adds to an ideal base, the other paths' duties are the selected
     /// duty plus the base's change of duty between the paths (what the model adds does not
     /// depend on the path); for a model with no base, every path gives the selected duty.
-    fn path_spread(&self, inlet: &Solved, outlet: &Solved, selected_duty_w: f64) -> PathSpread {
+    fn path_spread(&self, inlet: &SolvedFlash, outlet: &SolvedFlash, selected_duty_w: f64) -> PathSpread {
         let Some(base) = self.base() else {
             return spread_of([selected_duty_w; 3]);
         };
@@ -674,7 +642,7 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
             .collect();
         // Σ over components and phases of amount × enthalpy along each other path: the sum
         // of `enthalpy_with`, in the same order.
-        let enthalpies = |s: &Solved| {
+        let enthalpies = |s: &SolvedFlash| {
             let t = s.state.t;
             let mut totals = [0.0; 2];
             for i in 0..self.component_count() {
@@ -724,7 +692,7 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
 
     /// The full result: [`Self::summary`]'s numbers with both flash results, the enthalpy
     /// table, the path spread and the warnings.
-    pub fn result(&self, inlet: Solved, outlet: Solved, outlet_tp: bool) -> DutyResult {
+    pub fn result(&self, inlet: SolvedFlash, outlet: SolvedFlash, outlet_tp: bool) -> DutyResult {
         let summary = self.summary(&inlet, &outlet, outlet_tp);
         let n = self.component_count();
         let mut table = Vec::with_capacity(4 * n);
@@ -733,8 +701,8 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
         self.rows("inlet", &inlet, &mut table, &mut warned, &mut row_warnings);
         self.rows("outlet", &outlet, &mut table, &mut warned, &mut row_warnings);
         let spread = self.path_spread(&inlet, &outlet, summary.duty_w);
-        let inlet = flash_result(&self.k_model, &self.zn, &inlet.state, inlet.buffers);
-        let outlet = flash_result(&self.k_model, &self.zn, &outlet.state, outlet.buffers);
+        let inlet = flash_result(&self.k_model, &self.zn, inlet);
+        let outlet = flash_result(&self.k_model, &self.zn, outlet);
         let mut warnings = Vec::new();
         for w in inlet.warnings.iter().chain(&outlet.warnings) {
             push_unique(&mut warnings, w.clone());
@@ -758,7 +726,7 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
     }
 
     /// The bubble temperature at `p`, searched with `buffers` as scratch.
-    pub fn bubble_temperature(&self, p: Pressure, buffers: &mut FlashBuffers) -> Result<f64, EnergyError> {
+    pub fn bubble_temperature(&self, p: Pressure, buffers: &mut SolvedFlash) -> Result<f64, EnergyError> {
         Ok(saturation_temperature(
             &self.k_model,
             &self.zn,
@@ -769,7 +737,7 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
     }
 
     /// The dew temperature at `p` (`None`: a non-volatile component means there is none).
-    pub fn dew_temperature(&self, p: Pressure, buffers: &mut FlashBuffers) -> Result<Option<f64>, EnergyError> {
+    pub fn dew_temperature(&self, p: Pressure, buffers: &mut SolvedFlash) -> Result<Option<f64>, EnergyError> {
         match saturation_temperature(&self.k_model, &self.zn, p.pascal(), false, buffers) {
             Ok(t) => Ok(Some(t)),
             Err(crate::equilibrium::FlashError::NoDewPoint { .. }) => Ok(None),
@@ -786,12 +754,12 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
         inlet: StreamState,
         duty: Power,
         outlet_pressure: Pressure,
-        inlet_out: &mut Solved,
-        outlet_out: &mut Solved,
+        inlet_out: &mut SolvedFlash,
+        outlet_out: &mut SolvedFlash,
     ) -> Result<(f64, Option<Option<f64>>), EnergyError> {
         self.flash_state("inlet", inlet, inlet_out)?;
         let target = self.enthalpy(inlet_out) + duty.watts() / self.flow();
-        let t_bub = self.bubble_temperature(outlet_pressure, &mut outlet_out.buffers)?;
+        let t_bub = self.bubble_temperature(outlet_pressure, outlet_out)?;
         let dew = self.state_for_enthalpy(target, outlet_pressure, t_bub, None, duty.watts(), outlet_out)?;
         Ok((t_bub, dew))
     }
@@ -807,12 +775,12 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
         t_bub: f64,
         dew: Option<Option<f64>>,
         duty_w: f64,
-        out: &mut Solved,
+        out: &mut SolvedFlash,
     ) -> Result<Option<Option<f64>>, EnergyError> {
         let (z, p_pa) = (self.z(), p.pascal());
         let h_bub = self.saturated_enthalpy(Phase::Liquid, t_bub, p_pa);
         let out_of_reach = || EnergyError::DutyOutOfReach { duty_w };
-        let single = |phase: Phase, lo_t: f64, hi_t: f64, out: &mut Solved| -> Result<(), EnergyError> {
+        let single = |phase: Phase, lo_t: f64, hi_t: f64, out: &mut SolvedFlash| -> Result<(), EnergyError> {
             let h = |t: f64| self.phase_enthalpy(phase, z, t, p_pa) - target;
             let bracket = expand_bracket(h, lo_t, hi_t, SEARCH_MIN_TEMPERATURE_K, SEARCH_MAX_TEMPERATURE_K)
                 .ok_or_else(out_of_reach)?;
@@ -837,7 +805,7 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
         }
         let dew = match dew {
             Some(d) => d,
-            None => self.dew_temperature(p, &mut out.buffers)?,
+            None => self.dew_temperature(p, out)?,
         };
         let Some(t_dew) = dew else {
             self.two_phase(target, p, t_bub, SEARCH_MAX_TEMPERATURE_K, out)?;
@@ -868,7 +836,7 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
         t_bub: f64,
         t_dew: f64,
         start: f64,
-        out: &mut Solved,
+        out: &mut SolvedFlash,
     ) -> Result<(), EnergyError> {
         const TOLERANCE_K: f64 = 1e-12;
         let mut failure: Option<EnergyError> = None;
@@ -901,8 +869,15 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
 
     /// Solves on the vapour fraction between the bubble and dew points: temperature may be
     /// flat there (pure components, azeotrope-like narrow boilers), vapour fraction never is.
-    fn two_phase(&self, target: f64, p: Pressure, t_bub: f64, t_dew: f64, out: &mut Solved) -> Result<(), EnergyError> {
-        let at = |beta: f64, out: &mut Solved| {
+    fn two_phase(
+        &self,
+        target: f64,
+        p: Pressure,
+        t_bub: f64,
+        t_dew: f64,
+        out: &mut SolvedFlash,
+    ) -> Result<(), EnergyError> {
+        let at = |beta: f64, out: &mut SolvedFlash| {
             let spec = FlashSpec::PressureVapourFraction {
                 pressure: p,
                 vapour_fraction: beta.clamp(0.0, 1.0),

@@ -2,7 +2,7 @@
 //! library's real latent heats: what [`VapourModel::SecondVirial`](super::VapourModel::SecondVirial) adds to the ideal-gas
 //! enthalpies.
 
-use super::path_table::switch_temperature;
+use super::path_table::vaporisation_temperature;
 use super::reference::{ReferencePhase, ReferenceState, VaporisationPath};
 use crate::properties::{Component, PitzerCurlVirial, VapourPressure};
 use crate::rachford_rice::Phase;
@@ -31,7 +31,7 @@ impl VirialConstants {
         };
         let t_ref = reference.temperature_k;
         let saturation = (path != VaporisationPath::StreamTemperature)
-            .then(|| at_saturation(switch_temperature(c, t_ref, reference, path)));
+            .then(|| at_saturation(vaporisation_temperature(c, t_ref, reference, path)));
         let reference = if reference.phase == ReferencePhase::Vapour {
             saturation.unwrap_or_else(|| at_saturation(t_ref))
         } else {

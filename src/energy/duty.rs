@@ -3,13 +3,14 @@
 //! [`EnthalpyModel`](super::EnthalpyModel)), and their `_with` forms, which take any K-value and phase-enthalpy
 //! model.
 
-use super::calc::{Calc, Solved};
+use super::calc::Calc;
 use super::options::DutyOptions;
 use super::phase_enthalpy::PhaseEnthalpyModel;
 use super::reference::VaporisationPath;
 use super::result::{Curve, CurvePoint, DutyResult, EnergyError, PathSpread};
 use super::stream::{Stream, StreamState};
 use crate::equilibrium::KValueModel;
+use crate::equilibrium::SolvedFlash;
 use crate::rachford_rice::Phase;
 use crate::units::{Power, Pressure};
 use std::borrow::Cow;
@@ -95,7 +96,7 @@ fn duty_of<K: KValueModel, H: PhaseEnthalpyModel>(
     outlet: StreamState,
 ) -> Result<DutyResult, EnergyError> {
     let n = calc.component_count();
-    let (mut inlet_s, mut outlet_s) = (Solved::new(n), Solved::new(n));
+    let (mut inlet_s, mut outlet_s) = (SolvedFlash::new(n), SolvedFlash::new(n));
     calc.flash_state("inlet", inlet, &mut inlet_s)?;
     calc.flash_state("outlet", outlet, &mut outlet_s)?;
     Ok(calc.result(inlet_s, outlet_s, outlet.is_temperature_pressure()))
@@ -184,7 +185,7 @@ fn outlet_of<K: KValueModel, H: PhaseEnthalpyModel>(
     outlet_pressure: Pressure,
 ) -> Result<DutyResult, EnergyError> {
     let n = calc.component_count();
-    let (mut inlet_s, mut outlet_s) = (Solved::new(n), Solved::new(n));
+    let (mut inlet_s, mut outlet_s) = (SolvedFlash::new(n), SolvedFlash::new(n));
     let (t_bub, dew) = calc.outlet_for_duty(inlet, duty, outlet_pressure, &mut inlet_s, &mut outlet_s)?;
     let t_out = outlet_s.state.t;
     let mut result = calc.result(inlet_s, outlet_s, true);
@@ -196,13 +197,10 @@ fn outlet_of<K: KValueModel, H: PhaseEnthalpyModel>(
     {
         // The search needs the dew point (for a liquid outlet not yet known; none: nothing
         // vaporises, no other outlet; a failed search only skips the check).
-        let mut scratch = Solved::new(calc.component_count());
+        let mut scratch = SolvedFlash::new(calc.component_count());
         let dew = match dew {
             Some(dew) => dew,
-            None => calc
-                .dew_temperature(outlet_pressure, &mut scratch.buffers)
-                .ok()
-                .flatten(),
+            None => calc.dew_temperature(outlet_pressure, &mut scratch).ok().flatten(),
         };
         if let Some(t_dew) = dew
             && let Some(w) = calc.outlet_uniqueness(
@@ -297,15 +295,15 @@ fn curve_of<K: KValueModel, H: PhaseEnthalpyModel>(
     points: usize,
 ) -> Result<Curve, EnergyError> {
     let n = calc.component_count();
-    let (mut inlet_s, mut outlet_s, mut work) = (Solved::new(n), Solved::new(n), Solved::new(n));
+    let (mut inlet_s, mut outlet_s, mut work) = (SolvedFlash::new(n), SolvedFlash::new(n), SolvedFlash::new(n));
     calc.flash_state("inlet", inlet, &mut inlet_s)?;
     calc.flash_state("outlet", outlet, &mut outlet_s)?;
     let p = Pressure::new("P", outlet_s.state.p)?;
     let flow = calc.stream().flow().mol_per_s();
     let h_in = calc.enthalpy(&inlet_s);
     let total = flow * (calc.enthalpy(&outlet_s) - h_in);
-    let t_bub = calc.bubble_temperature(p, &mut work.buffers)?;
-    let t_dew = calc.dew_temperature(p, &mut work.buffers)?;
+    let t_bub = calc.bubble_temperature(p, &mut work)?;
+    let t_dew = calc.dew_temperature(p, &mut work)?;
     let mut warnings = Vec::new();
     let mut warned = vec![0u8; calc.component_count()];
     let mut out = Vec::with_capacity(points + 2);

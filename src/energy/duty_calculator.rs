@@ -1,11 +1,12 @@
 //! [`DutyCalculator`]: heater duties and duty-specified flashes for hot loops.
 
-use super::calc::{Calc, Solved};
+use super::calc::Calc;
 use super::ideal::EnthalpyModel;
 use super::options::DutyOptions;
 use super::phase_enthalpy::PhaseEnthalpyModel;
 use super::result::EnergyError;
 use super::stream::{Stream, StreamState};
+use crate::equilibrium::SolvedFlash;
 use crate::equilibrium::{KValueModel, Raoult};
 use crate::rachford_rice::Phase;
 use crate::units::{Power, Pressure};
@@ -72,8 +73,8 @@ use std::borrow::Cow;
 #[derive(Clone)]
 pub struct DutyCalculator<K = Raoult, H = EnthalpyModel> {
     calc: Calc<'static, K, H>,
-    inlet: Solved,
-    outlet: Solved,
+    inlet: SolvedFlash,
+    outlet: SolvedFlash,
     /// Whether the buffers hold the states of a call that succeeded.
     valid: bool,
 }
@@ -186,8 +187,8 @@ impl<K: KValueModel, H: PhaseEnthalpyModel> DutyCalculator<K, H> {
         let n = calc.component_count();
         Self {
             calc,
-            inlet: Solved::new(n),
-            outlet: Solved::new(n),
+            inlet: SolvedFlash::new(n),
+            outlet: SolvedFlash::new(n),
             valid: false,
         }
     }
@@ -330,14 +331,14 @@ impl<K: KValueModel, H: PhaseEnthalpyModel> DutyCalculator<K, H> {
         Ok(summary)
     }
 
-    fn composition<'a>(&'a self, s: &'a Solved, liquid: bool) -> Option<&'a [f64]> {
+    fn composition<'a>(&'a self, s: &'a SolvedFlash, liquid: bool) -> Option<&'a [f64]> {
         if !self.valid {
             return None;
         }
         if liquid {
-            s.state.has_liquid.then_some(s.buffers.x.as_slice())
+            s.state.has_liquid.then_some(s.x.as_slice())
         } else {
-            s.state.has_vapour.then_some(s.buffers.y.as_slice())
+            s.state.has_vapour.then_some(s.y.as_slice())
         }
     }
 

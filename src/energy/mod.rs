@@ -37,6 +37,12 @@
 //! assert!((table - r.duty_w).abs() < 1e-6 * r.duty_w);
 //! ```
 //!
+//! Which type describes which state: [`StreamState`] is where a heater's inlet or outlet is
+//! (T and P, P and β, or T and β: the flash specifications a stream state can be);
+//! [`FlashResult`](crate::equilibrium::FlashResult) is a solved state with its compositions,
+//! K-values, warnings and sensitivities, as the full functions return it; [`StateSummary`] is
+//! the small `Copy` summary of a solved state that [`DutyCalculator`] returns in hot loops.
+//!
 //! Files: `stream.rs` ([`Stream`], [`StreamState`]), `reference.rs` (reference state,
 //! vaporisation path, vapour model), `options.rs` ([`DutyOptions`]), `phase_enthalpy.rs`
 //! (the [`PhaseEnthalpyModel`] trait), `ideal.rs` ([`EnthalpyModel`], ideal mixing),

@@ -48,9 +48,15 @@ pub(crate) fn liquid_sensible(c: &Component, t_ref: f64, t_k: f64) -> f64 {
     c.liquid_heat_capacity().enthalpy_change(t_ref, t_k)
 }
 
-/// The temperature at which a component is vaporised on the path to vapour at `t_k`,
-/// starting from liquid at the reference temperature.
-pub(crate) fn switch_temperature(c: &Component, t_k: f64, reference: ReferenceState, path: VaporisationPath) -> f64 {
+/// The temperature at which the vaporisation path takes a component from liquid (at the
+/// reference temperature) to vapour at `t_k`: (a) its normal boiling point, (b) `t_k`, the
+/// stream temperature, (c) the reference temperature.
+pub(crate) fn vaporisation_temperature(
+    c: &Component,
+    t_k: f64,
+    reference: ReferenceState,
+    path: VaporisationPath,
+) -> f64 {
     match path {
         VaporisationPath::BoilingPoint => c.normal_boiling_point_k(),
         VaporisationPath::StreamTemperature => t_k,
@@ -75,7 +81,7 @@ struct PureConstants {
     /// Paths (a) and (c): the vaporisation temperature Ts, and the liquid sensible heat
     /// from the reference temperature to Ts and the latent heat at Ts. Path (b): `None`,
     /// the liquid is vaporised at the stream temperature.
-    fixed: Option<(f64, f64, f64)>,
+    fixed_vaporisation: Option<(f64, f64, f64)>,
     /// Subtracted from every enthalpy: zero for a liquid reference; for a vapour reference,
     /// the vapour's enthalpy at the reference temperature measured from the liquid there
     /// along the same path.
@@ -86,12 +92,12 @@ impl PureConstants {
     fn new(c: &Component, reference: ReferenceState, path: VaporisationPath) -> Self {
         let t_ref = reference.temperature_k;
         let mut k = Self {
-            fixed: None,
+            fixed_vaporisation: None,
             shift: Parts::default(),
         };
         if path != VaporisationPath::StreamTemperature {
-            let ts = switch_temperature(c, t_ref, reference, path);
-            k.fixed = Some((ts, liquid_sensible(c, t_ref, ts), c.latent_heat().latent_heat(ts)));
+            let ts = vaporisation_temperature(c, t_ref, reference, path);
+            k.fixed_vaporisation = Some((ts, liquid_sensible(c, t_ref, ts), c.latent_heat().latent_heat(ts)));
         }
         if reference.phase == ReferencePhase::Vapour {
             k.shift = k.measured_from_liquid(c, t_ref, Phase::Vapour, t_ref);
@@ -109,7 +115,7 @@ impl PureConstants {
     /// heat from the reference temperature to `t_k` given by `liquid_to_t` where needed.
     #[inline]
     fn measured_given(&self, c: &Component, phase: Phase, t_k: f64, liquid_to_t: impl FnOnce() -> f64) -> Parts {
-        match (phase, self.fixed) {
+        match (phase, self.fixed_vaporisation) {
             (Phase::Vapour, Some((ts, liquid_sensible, latent))) => Parts {
                 liquid_sensible,
                 latent,
@@ -129,7 +135,7 @@ impl PureConstants {
 
     #[inline]
     fn slope(&self, c: &Component, phase: Phase, t_k: f64) -> f64 {
-        match (phase, self.fixed) {
+        match (phase, self.fixed_vaporisation) {
             (Phase::Vapour, Some(_)) => c.vapour_heat_capacity().cp(t_k),
             (Phase::Vapour, None) => {
                 let (_, dl) = c.latent_heat().latent_heat_with_slope(t_k);

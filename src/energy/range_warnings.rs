@@ -3,7 +3,7 @@
 
 use super::departure::saturation_point;
 use super::options::DutyOptions;
-use super::path_table::switch_temperature;
+use super::path_table::vaporisation_temperature;
 use super::reference::{ReferencePhase, VapourModel};
 use crate::properties::{Component, HeatCapacity, LatentHeat, PitzerCurlVirial, ValidityRange};
 use crate::rachford_rice::Phase;
@@ -51,7 +51,7 @@ pub(crate) fn enthalpy_warnings(
             );
         }
     };
-    let ts = switch_temperature(c, t_k, reference, path);
+    let ts = vaporisation_temperature(c, t_k, reference, path);
     let liquid_to = if phase == Phase::Vapour { ts } else { t_k };
     for t in [t_ref.min(liquid_to), t_ref.max(liquid_to)] {
         check(1, "liquid_heat_capacity", c.liquid_heat_capacity().validity(), t);
@@ -88,11 +88,19 @@ pub(crate) fn virial_warnings(
     let mut points = [None; 3];
     if phase == Phase::Vapour {
         points[0] = Some((t_k, p_pa));
-        points[1] = Some(saturation_point(c, switch_temperature(c, t_k, reference, path), path));
+        points[1] = Some(saturation_point(
+            c,
+            vaporisation_temperature(c, t_k, reference, path),
+            path,
+        ));
     }
     if reference.phase == ReferencePhase::Vapour {
         let t_ref = reference.temperature_k;
-        points[2] = Some(saturation_point(c, switch_temperature(c, t_ref, reference, path), path));
+        points[2] = Some(saturation_point(
+            c,
+            vaporisation_temperature(c, t_ref, reference, path),
+            path,
+        ));
     }
     let Some((t, p)) = points.into_iter().flatten().find(|&(t, p)| !b.is_within_range(t, p)) else {
         return;

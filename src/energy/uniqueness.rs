@@ -2,9 +2,10 @@
 //! stream-temperature path the enthalpy dips at each component's critical temperature, so
 //! one duty can have several outlets.
 
-use super::calc::{Calc, Solved, WIDE_TWO_PHASE_K};
+use super::calc::{Calc, WIDE_TWO_PHASE_K};
 use super::phase_enthalpy::PhaseEnthalpyModel;
 use super::reference::VaporisationPath;
+use crate::equilibrium::SolvedFlash;
 use crate::equilibrium::{KValueModel, SEARCH_MAX_TEMPERATURE_K};
 use crate::rachford_rice::Phase;
 use crate::solve::bracketed_newton;
@@ -31,7 +32,7 @@ impl<K: KValueModel, H: PhaseEnthalpyModel> Calc<'_, K, H> {
         t_out: f64,
         (t_bub, t_dew): (f64, f64),
         p: Pressure,
-        scratch: &mut Solved,
+        scratch: &mut SolvedFlash,
     ) -> Option<Warning> {
         let base = self.base()?;
         if base.path() != VaporisationPath::StreamTemperature {

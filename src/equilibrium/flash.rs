@@ -45,15 +45,18 @@ pub fn flash<M: KValueModel + ?Sized>(model: &M, z: &[f64], spec: FlashSpec) -> 
         normalised_z = z.iter().map(|v| v / sum).collect();
         &normalised_z
     };
-    let mut buffers = FlashBuffers::new(n);
-    let state = flash_into(model, z, spec, None, &mut buffers)?;
-    Ok(flash_result(model, z, &state, buffers))
+    let mut solved = SolvedFlash::new(n);
+    flash_into(model, z, spec, None, &mut solved)?;
+    Ok(flash_result(model, z, solved))
 }
 
-/// The K-values and phase compositions of one flash, in buffers a caller can reuse: the
-/// working storage of [`flash`], and of the energy layer's hot loops.
+/// A solved flash in buffers a caller can reuse: the state, and the K-values and phase
+/// compositions at it. The working storage of [`flash`] and of the energy layer's hot
+/// loops; [`flash_result`] turns it into a [`FlashResult`].
 #[derive(Debug, Clone)]
-pub(crate) struct FlashBuffers {
+pub(crate) struct SolvedFlash {
+    /// The state; after [`flash_into`], the one solved.
+    pub state: SolvedState,
     /// K-values and their derivatives; after [`flash_into`], at the solved state.
     pub kv: KValues,
     /// Liquid mole fractions (meaningful where [`SolvedState::has_liquid`]).
@@ -62,18 +65,37 @@ pub(crate) struct FlashBuffers {
     pub y: Vec<f64>,
 }
 
-impl FlashBuffers {
-    /// Buffers for `n` components.
+impl SolvedFlash {
+    /// Buffers for `n` components, nothing solved yet.
     pub fn new(n: usize) -> Self {
         Self {
+            state: SolvedState::UNSET,
             kv: KValues::new(n),
             x: vec![0.0; n],
             y: vec![0.0; n],
         }
     }
+
+    /// Reports a state found on the single-phase side of a bubble or dew point as that
+    /// phase: round-off can put its T–P flash a hair into the two-phase region, where β is
+    /// then 1e-15.
+    pub fn force_single(&mut self, phase: Phase, z: &[f64]) {
+        let s = &mut self.state;
+        if s.phase == phase {
+            return;
+        }
+        s.phase = phase;
+        if phase == Phase::Liquid {
+            (s.beta, s.liquid_fraction, s.has_liquid, s.has_vapour) = (0.0, 1.0, true, false);
+            self.x.copy_from_slice(z);
+        } else {
+            (s.beta, s.liquid_fraction, s.has_liquid, s.has_vapour) = (1.0, 0.0, false, true);
+            self.y.copy_from_slice(z);
+        }
+    }
 }
 
-/// A solved flash whose K-values and compositions are in a [`FlashBuffers`].
+/// The scalar part of a [`SolvedFlash`].
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub(crate) struct SolvedState {
     /// Temperature, K.
@@ -112,7 +134,7 @@ impl SolvedState {
 }
 
 /// The flash of [`flash`] into caller-owned buffers, without the result's allocations:
-/// on success the buffers hold the K-values at the solved state and its compositions.
+/// on success `buffers` holds the solved state, the K-values at it and its compositions.
 ///
 /// The caller has checked that `z` is a valid feed for `model` (as [`flash`] does) and
 /// normalised it the way [`flash`] does, and sized `buffers` for the model. For a
@@ -123,8 +145,8 @@ pub(crate) fn flash_into<M: KValueModel + ?Sized>(
     z: &[f64],
     spec: FlashSpec,
     t_bracket: Option<(f64, f64)>,
-    buffers: &mut FlashBuffers,
-) -> Result<SolvedState, FlashError> {
+    buffers: &mut SolvedFlash,
+) -> Result<(), FlashError> {
     check_vapour_fraction(spec)?;
     // Composition-independent models never read the phase compositions.
     let start = if model.is_composition_dependent() {
@@ -151,7 +173,8 @@ pub(crate) fn flash_into<M: KValueModel + ?Sized>(
     for _ in 0..rounds {
         let state = solver.solve_frozen(spec)?;
         if !model.is_composition_dependent() {
-            return Ok(solver.done(state));
+            solver.done(state);
+            return Ok(());
         }
         // A single-phase state still leaves the incipient phase in the buffers: its
         // composition, not z, is where the next round evaluates the missing phase's K, so
@@ -173,7 +196,8 @@ pub(crate) fn flash_into<M: KValueModel + ?Sized>(
         solver.vapour = new_vapour;
         solver.last_state = None;
         if change <= 1e-12 {
-            return Ok(solver.done(state));
+            solver.done(state);
+            return Ok(());
         }
     }
     Err(FlashError::NotConverged {
@@ -190,7 +214,7 @@ pub(crate) fn saturation_temperature<M: KValueModel + ?Sized>(
     z: &[f64],
     p_pa: f64,
     bubble: bool,
-    buffers: &mut FlashBuffers,
+    buffers: &mut SolvedFlash,
 ) -> Result<f64, FlashError> {
     if model.is_composition_dependent() {
         // The outer loop is needed: take the full route.
@@ -207,7 +231,8 @@ pub(crate) fn saturation_temperature<M: KValueModel + ?Sized>(
         } else {
             FlashSpec::DewTemperature { pressure }
         };
-        return flash_into(model, z, spec, None, buffers).map(|s| s.t);
+        flash_into(model, z, spec, None, buffers)?;
+        return Ok(buffers.state.t);
     }
     let mut solver = Solver {
         model,
@@ -229,24 +254,20 @@ pub(crate) fn saturation_temperature<M: KValueModel + ?Sized>(
 
 /// The [`FlashResult`] of a state solved by [`flash_into`] (with the same `model` and `z`),
 /// taking the buffers' vectors into it.
-pub(crate) fn flash_result<M: KValueModel + ?Sized>(
-    model: &M,
-    z: &[f64],
-    state: &SolvedState,
-    buffers: FlashBuffers,
-) -> FlashResult {
+pub(crate) fn flash_result<M: KValueModel + ?Sized>(model: &M, z: &[f64], solved: SolvedFlash) -> FlashResult {
+    let state = solved.state;
     let mut warnings = Vec::new();
     model.warnings(state.t, state.p, &mut warnings);
-    let sensitivity = state_sensitivity(model, z, state, &buffers);
+    let sensitivity = state_sensitivity(model, z, &solved);
     FlashResult {
         phase: state.phase,
         temperature_k: state.t,
         pressure_pa: state.p,
         vapour_fraction: state.beta,
         liquid_fraction: state.liquid_fraction,
-        liquid: state.has_liquid.then_some(buffers.x),
-        vapour: state.has_vapour.then_some(buffers.y),
-        k_values: buffers.kv.k,
+        liquid: state.has_liquid.then_some(solved.x),
+        vapour: state.has_vapour.then_some(solved.y),
+        k_values: solved.kv.k,
         iterations: state.iterations,
         evaluations: state.evaluations,
         warnings,

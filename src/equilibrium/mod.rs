@@ -30,6 +30,13 @@
 //! assert!(tp.vapour_fraction > 0.0 && tp.vapour_fraction < 1.0);
 //! ```
 //!
+//! Which type describes which state: [`FlashSpec`] is what a flash is asked (what is held
+//! fixed); [`FlashResult`] is what it answers; the Rachford–Rice solver's own
+//! [`SplitSummary`](crate::rachford_rice::SplitSummary) and
+//! [`PhaseSplit`](crate::rachford_rice::PhaseSplit) are a split of z by given K-values alone,
+//! with no temperature or pressure. (Inside the crate, a solved flash in reusable buffers is
+//! one `SolvedFlash`.)
+//!
 //! Files: `kvalue.rs` (the [`KValueModel`] trait, [`Raoult`], [`GivenK`]), `spec.rs` (what a
 //! flash is asked and what it answers: [`FlashSpec`], [`FlashResult`], [`FlashError`]),
 //! `flash.rs` ([`flash`] and the buffer-reusing flash the energy layer runs), `search.rs`
@@ -49,5 +56,5 @@ pub use kvalue::{GivenK, KValueModel, KValues, Raoult};
 pub use spec::{FlashError, FlashResult, FlashSpec, SEARCH_MAX_TEMPERATURE_K, SEARCH_MIN_TEMPERATURE_K, Sensitivity};
 pub use tp_flasher::TpFlasher;
 
-pub(crate) use flash::{FlashBuffers, SolvedState, flash_into, flash_result, saturation_temperature};
+pub(crate) use flash::{SolvedFlash, flash_into, flash_result, saturation_temperature};
 pub(crate) use sensitivity::{amount_slopes, sensitivity};

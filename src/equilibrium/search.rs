@@ -2,7 +2,7 @@
 //! pressures, and the T–β and P–β flashes, each Newton's method inside a bracket
 //! ([`crate::solve`]) on a sum that is nearly linear in its variable.
 
-use super::flash::{FlashBuffers, SolvedState};
+use super::flash::{SolvedFlash, SolvedState};
 use super::kvalue::KValueModel;
 use super::spec::{FlashError, FlashSpec, SEARCH_MAX_TEMPERATURE_K, SEARCH_MIN_TEMPERATURE_K};
 use crate::rachford_rice::{self, Options, Phase};
@@ -36,7 +36,7 @@ pub(super) struct Solver<'a, M: ?Sized> {
     pub(super) model: &'a M,
     pub(super) z: &'a [f64],
     /// K-values and compositions; a solved state's x and y are written here.
-    pub(super) buffers: &'a mut FlashBuffers,
+    pub(super) buffers: &'a mut SolvedFlash,
     pub(super) liquid: Vec<f64>,
     pub(super) vapour: Vec<f64>,
     pub(super) evaluations: u32,
@@ -393,13 +393,13 @@ impl<M: KValueModel + ?Sized> Solver<'_, M> {
         }
     }
 
-    /// The state with the search's counts, and the K-values in the buffers at it.
-    pub(super) fn done(&mut self, state: SolvedState) -> SolvedState {
+    /// Stores the state, with the search's counts, in the buffers, and the K-values at it.
+    pub(super) fn done(&mut self, state: SolvedState) {
         self.k_at_cached(state.t, state.p);
-        SolvedState {
+        self.buffers.state = SolvedState {
             iterations: self.iterations,
             evaluations: self.evaluations,
             ..state
-        }
+        };
     }
 }

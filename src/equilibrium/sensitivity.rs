@@ -10,7 +10,7 @@
 //! partial pivoting (n is small). Both reduce to the same numbers when K does not depend on
 //! composition.
 
-use super::flash::{FlashBuffers, SolvedState};
+use super::flash::SolvedFlash;
 use super::kvalue::{KValueModel, KValues};
 use super::spec::Sensitivity;
 use crate::rachford_rice::Phase;
@@ -38,24 +38,24 @@ pub(crate) fn sensitivity(z: &[f64], kv: &KValues, beta: f64, liquid_fraction: f
 }
 
 /// dβ/dT and dβ/dP of a two-phase state solved by [`super::flash_into`] for `model`, with
-/// the K-values and compositions in `buffers`: the closed form for composition-independent
+/// the K-values and compositions in `solved`: the closed form for composition-independent
 /// models, the full linear system otherwise. `None` unless two-phase, or where a derivative
 /// is not finite.
 pub(crate) fn state_sensitivity<M: KValueModel + ?Sized>(
     model: &M,
     z: &[f64],
-    state: &SolvedState,
-    buffers: &FlashBuffers,
+    solved: &SolvedFlash,
 ) -> Option<Sensitivity> {
+    let state = &solved.state;
     if state.phase != Phase::TwoPhase {
         return None;
     }
     if !model.is_composition_dependent() {
-        return sensitivity(z, &buffers.kv, state.beta, state.liquid_fraction);
+        return sensitivity(z, &solved.kv, state.beta, state.liquid_fraction);
     }
     let n = z.len();
     let (mut dv_dt, mut dv_dp) = (vec![0.0; n], vec![0.0; n]);
-    if !amount_slopes(model, z, state, buffers, &mut dv_dt, &mut dv_dp) {
+    if !amount_slopes(model, z, solved, &mut dv_dt, &mut dv_dp) {
         return None;
     }
     let s = Sensitivity {
@@ -72,19 +72,19 @@ pub(crate) fn state_sensitivity<M: KValueModel + ?Sized>(
 pub(crate) fn amount_slopes<M: KValueModel + ?Sized>(
     model: &M,
     z: &[f64],
-    state: &SolvedState,
-    buffers: &FlashBuffers,
+    solved: &SolvedFlash,
     dv_dt: &mut [f64],
     dv_dp: &mut [f64],
 ) -> bool {
+    let state = &solved.state;
     dv_dt.iter_mut().for_each(|d| *d = 0.0);
     dv_dp.iter_mut().for_each(|d| *d = 0.0);
     if state.phase != Phase::TwoPhase {
         return true;
     }
-    let (beta, lf, kv) = (state.beta, state.liquid_fraction, &buffers.kv);
+    let (beta, lf, kv) = (state.beta, state.liquid_fraction, &solved.kv);
     let ok = if model.is_composition_dependent() {
-        coupled_slopes(model, z, state, buffers, dv_dt, dv_dp)
+        coupled_slopes(model, z, solved, dv_dt, dv_dp)
     } else {
         let Some(s) = sensitivity(z, kv, beta, lf) else {
             return false;
@@ -110,14 +110,13 @@ pub(crate) fn amount_slopes<M: KValueModel + ?Sized>(
 fn coupled_slopes<M: KValueModel + ?Sized>(
     model: &M,
     z: &[f64],
-    state: &SolvedState,
-    buffers: &FlashBuffers,
+    solved: &SolvedFlash,
     dv_dt: &mut [f64],
     dv_dp: &mut [f64],
 ) -> bool {
-    let n = z.len();
+    let (n, state) = (z.len(), &solved.state);
     let (beta, lf) = (state.beta, state.liquid_fraction);
-    let (x, y, kv): (&[f64], &[f64], &KValues) = (&buffers.x, &buffers.y, &buffers.kv);
+    let (x, y, kv): (&[f64], &[f64], &KValues) = (&solved.x, &solved.y, &solved.kv);
     let (mut dx, mut dy) = (vec![0.0; n * n], vec![0.0; n * n]);
     model.composition_derivatives(state.t, state.p, x, y, &mut dx, &mut dy);
     // Components present in both phases; the others' amounts do not move.
