@@ -2,10 +2,10 @@
 //! every value with its source. Read from the component-file schema (JSON or TOML) and
 //! checked on the way in.
 
-use super::{
-    Antoine, AntoineForm, ConstantCp, Dippr106, ExtendedAntoine, HeatCapacity, HeatCapacityModel, LatentHeat,
-    LatentHeatModel, PolynomialCp, ShomateCp, ValidityRange, VapourPressure, VapourPressureModel, Watson,
-};
+use super::heat_capacity::{ConstantCp, HeatCapacity, HeatCapacityModel, PolynomialCp, ShomateCp};
+use super::latent_heat::{Dippr106, LatentHeat, LatentHeatModel, Watson};
+use super::range::ValidityRange;
+use super::vapour_pressure::{Antoine, AntoineForm, ExtendedAntoine, VapourPressure, VapourPressureModel};
 use serde::{Deserialize, Serialize};
 
 /// An error in a component's data, naming the component and the field.

@@ -1,7 +1,8 @@
 //! Heat-capacity correlations: polynomial, Shomate and constant, with closed-form integrals
 //! of Cp dT and Cp/T dT.
 
-use super::{ValidityRange, gauss_legendre};
+use super::quadrature::gauss_legendre;
+use super::range::ValidityRange;
 
 /// A pure-component molar heat capacity, J/(mol·K).
 ///

@@ -1,7 +1,7 @@
 //! Latent-heat correlations: Watson from a known point, and the DIPPR-106 form. Both are
 //! zero at and above the critical temperature.
 
-use super::ValidityRange;
+use super::range::ValidityRange;
 
 /// A pure-component latent heat of vaporisation, J/mol.
 ///

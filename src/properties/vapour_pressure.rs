@@ -1,7 +1,7 @@
 //! Vapour-pressure correlations: the Antoine equation in its common published forms, and
 //! the extended form `ln P = A + B/T + C ln T + D T^E` valid up to the critical point.
 
-use super::ValidityRange;
+use super::range::ValidityRange;
 use serde::{Deserialize, Serialize};
 
 /// A pure-component vapour-pressure model.

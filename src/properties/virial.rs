@@ -2,7 +2,7 @@
 //! form, and the vapour's residual enthalpy it gives through the virial equation truncated
 //! after the second term.
 
-use super::Component;
+use super::component::Component;
 
 use crate::units::GAS_CONSTANT;
 
