@@ -118,6 +118,36 @@ pub enum Warning {
         /// The other outlet temperatures found with the same enthalpy, K, ascending.
         other_outlet_temperatures_k: Vec<f64>,
     },
+    /// The feed holds water and components the library marks as immiscible with it, and
+    /// the flash has one liquid: a second liquid phase is likely, and bubble points, dew
+    /// points and duties can be wrong by tens of kelvin and by the latent heat that goes
+    /// with them. The immiscible water phase (`water_phase`) models it.
+    ///
+    /// ```
+    /// use flashduty::warnings::Warning;
+    /// let w = Warning::SecondLiquidLikely { components: vec!["toluene".into()] };
+    /// assert!(w.to_string().contains("water_phase"));
+    /// assert!(serde_json::to_string(&w).unwrap().contains("\"kind\":\"second-liquid-likely\""));
+    /// ```
+    SecondLiquidLikely {
+        /// The components immiscible with water.
+        components: Vec<String>,
+    },
+    /// A component put in the water-immiscible organic liquid dissolves in water to a few
+    /// per cent (or its miscibility is not recorded): the immiscible water phase is rough
+    /// for it.
+    ///
+    /// ```
+    /// use flashduty::warnings::Warning;
+    /// let w = Warning::PartlyMiscibleWithWater { component: "ethyl acetate".into(), solubility_mass_percent: Some(8.0) };
+    /// assert!(w.to_string().contains("8.0 mass %"));
+    /// ```
+    PartlyMiscibleWithWater {
+        /// The component.
+        component: String,
+        /// Its solubility in water at 25 °C, mass %, where recorded.
+        solubility_mass_percent: Option<f64>,
+    },
 }
 
 impl fmt::Display for Warning {
@@ -190,6 +220,24 @@ impl fmt::Display for Warning {
                     others
                 )
             }
+            Warning::SecondLiquidLikely { components } => write!(
+                f,
+                "water and {} do not mix as liquids: a second liquid phase is likely, which this one-liquid result ignores (bubble and dew points and duties can be far off); set water_phase to \"immiscible\"",
+                components.join(", ")
+            ),
+            Warning::PartlyMiscibleWithWater {
+                component,
+                solubility_mass_percent,
+            } => match solubility_mass_percent {
+                Some(s) => write!(
+                    f,
+                    "{component} dissolves in water ({s:.1} mass % at 25 °C) but is put in the water-immiscible organic liquid; the water phase is rough for it (give its solubility in water_phase.organic_in_water)"
+                ),
+                None => write!(
+                    f,
+                    "{component}: its miscibility with water is not recorded; it is put in the water-immiscible organic liquid"
+                ),
+            },
         }
     }
 }
@@ -214,6 +262,11 @@ pub(crate) fn push_unique(list: &mut Vec<Warning>, w: Warning) {
         (Warning::HighPressure { .. }, Warning::HighPressure { .. }) => true,
         (Warning::PathSpread { component: c1, .. }, Warning::PathSpread { component: c2, .. }) => c1 == c2,
         (Warning::VirialOutOfRange { component: c1, .. }, Warning::VirialOutOfRange { component: c2, .. }) => c1 == c2,
+        (Warning::SecondLiquidLikely { .. }, Warning::SecondLiquidLikely { .. }) => true,
+        (
+            Warning::PartlyMiscibleWithWater { component: c1, .. },
+            Warning::PartlyMiscibleWithWater { component: c2, .. },
+        ) => c1 == c2,
         _ => false,
     };
     if !list.iter().any(same) {

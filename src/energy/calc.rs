@@ -15,8 +15,9 @@ use super::reference::VaporisationPath;
 use super::result::{DutyResult, EnergyError, EnthalpyRow, PathSpread};
 use super::stream::{Stream, StreamState};
 use crate::equilibrium::{
-    FlashError, FlashSpec, KValueModel, Raoult, SEARCH_MAX_TEMPERATURE_K, SEARCH_MIN_TEMPERATURE_K, SolvedFlash,
-    amount_slopes, flash_into, flash_result, saturation_temperature, sensitivity,
+    FlashError, FlashSpec, KValueModel, Liquid, Raoult, SEARCH_MAX_TEMPERATURE_K, SEARCH_MIN_TEMPERATURE_K,
+    SolvedFlash, WaterPhase, amount_slopes, flash_into, flash_result, liquid_appearance_temperature,
+    saturation_temperature, sensitivity, water_flash_into, water_flash_result, water_warnings,
 };
 use crate::properties::Component;
 use crate::rachford_rice::Phase;
@@ -109,6 +110,12 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
         if let Some(base) = enthalpy.ideal_base() {
             Temperature::new("reference.temperature_k", base.reference().temperature_k)?;
         }
+        if stream.water_phase().is_some() && (!enthalpy.is_ideal_mixing() || k_model.is_composition_dependent()) {
+            return Err(FlashError::WaterPhaseModel {
+                detail: "the water phase takes the ideal-mixing enthalpy model and a K-value model that does not depend on composition",
+            }
+            .into());
+        }
         let zn = normalised_z(&stream)?;
         Ok(Self {
             stream,
@@ -169,8 +176,28 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
         t_bracket: Option<(f64, f64)>,
         out: &mut SolvedFlash,
     ) -> Result<(), EnergyError> {
-        flash_into(&self.k_model, &self.zn, spec, t_bracket, out)?;
+        match self.water() {
+            Some(w) => water_flash_into(&self.k_model, w, &self.zn, spec, out)?,
+            None => flash_into(&self.k_model, &self.zn, spec, t_bracket, out)?,
+        }
         Ok(())
+    }
+
+    /// The stream's water phase, where it has one and water is in the feed.
+    #[inline(always)]
+    pub(crate) fn water(&self) -> Option<&WaterPhase> {
+        self.stream
+            .water_phase()
+            .filter(|w| self.zn.get(w.water_index()).is_some_and(|&z| z > 0.0))
+    }
+
+    /// The [`FlashResult`](crate::equilibrium::FlashResult) of a state this calculator
+    /// solved.
+    pub(crate) fn flash_result_of(&self, s: SolvedFlash) -> crate::equilibrium::FlashResult {
+        match self.water() {
+            Some(w) if s.water.active => water_flash_result(&self.k_model, w, &self.zn, s),
+            _ => flash_result(&self.k_model, &self.zn, s),
+        }
     }
 
     /// Flashes a heater inlet or outlet state (`which` names it in errors) into `out`.
@@ -362,6 +389,11 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
     /// Adds the K-value model's warnings at the state (those of its flash result).
     pub fn flash_warnings(&self, s: &SolvedFlash, out: &mut Vec<Warning>) {
         self.k_model.warnings(s.state.t, s.state.p, out);
+        match self.water() {
+            Some(w) => water_warnings(w, &self.zn, out),
+            None if s.state.has_liquid => self.k_model.feed_warnings(&self.zn, out),
+            None => {}
+        }
     }
 
     /// The stream enthalpy (J/mol, the same sum as [`Self::enthalpy`]) and its analytic
@@ -425,17 +457,35 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
         if st.phase != Phase::TwoPhase {
             return 0.0;
         }
+        if s.water.active {
+            return self.water_slope(s, |dv| dv.iter().sum());
+        }
         sensitivity(&self.zn, &s.kv, st.beta, st.liquid_fraction).map_or(0.0, |s| s.dvapour_fraction_dt_per_k)
     }
 
     /// dvᵢ/dT of a two-phase state, from dβ/dT: (zᵢ/dᵢ)(Kᵢ/dᵢ)(dβ/dT + β(1 − β) ∂ln Kᵢ/∂T).
     #[inline]
     fn vapour_amount_slope(&self, s: &SolvedFlash, i: usize, dbeta_dt: f64) -> f64 {
+        if s.water.active {
+            return self.water_slope(s, |dv| dv[i]);
+        }
         let (st, kv) = (&s.state, &s.kv);
         let (beta, lf) = (st.beta, st.liquid_fraction);
         let k = kv.k[i];
         let d = lf + beta * k;
         (self.z()[i] / d) * (k / d) * (dbeta_dt + beta * lf * kv.dln_k_dt[i])
+    }
+
+    /// With a water phase: `f` of the vapour amounts' slopes dvᵢ/dT the flash left, or
+    /// infinity where the state is not unique at its T and P (the three-phase temperature
+    /// of water and a single organic, where the enthalpy jumps at constant T).
+    #[cold]
+    fn water_slope(&self, s: &SolvedFlash, f: impl Fn(&[f64]) -> f64) -> f64 {
+        if s.water.dv_dt_known {
+            f(&s.water.dv_dt)
+        } else {
+            f64::INFINITY
+        }
     }
 
     /// [`Self::enthalpy_and_slope`] without the second-virial departures: the ideal-gas
@@ -508,7 +558,8 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
         let h_in = self.enthalpy(inlet);
         let (h_out, dq) = if outlet_tp {
             let (h, slope) = self.enthalpy_and_slope(outlet);
-            (h, Some(flow * slope))
+            // Infinite at a three-phase temperature, where the duty jumps at constant T.
+            (h, (slope.is_finite()).then_some(flow * slope))
         } else {
             (self.enthalpy(outlet), None)
         };
@@ -701,8 +752,8 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
         self.rows("inlet", &inlet, &mut table, &mut warned, &mut row_warnings);
         self.rows("outlet", &outlet, &mut table, &mut warned, &mut row_warnings);
         let spread = self.path_spread(&inlet, &outlet, summary.duty_w);
-        let inlet = flash_result(&self.k_model, &self.zn, inlet);
-        let outlet = flash_result(&self.k_model, &self.zn, outlet);
+        let inlet = self.flash_result_of(inlet);
+        let outlet = self.flash_result_of(outlet);
         let mut warnings = Vec::new();
         for w in inlet.warnings.iter().chain(&outlet.warnings) {
             push_unique(&mut warnings, w.clone());
@@ -727,6 +778,10 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
 
     /// The bubble temperature at `p`, searched with `buffers` as scratch.
     pub fn bubble_temperature(&self, p: Pressure, buffers: &mut SolvedFlash) -> Result<f64, EnergyError> {
+        if self.water().is_some() {
+            self.flash_spec(FlashSpec::BubbleTemperature { pressure: p }, None, buffers)?;
+            return Ok(buffers.state.t);
+        }
         Ok(saturation_temperature(
             &self.k_model,
             &self.zn,
@@ -738,11 +793,39 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
 
     /// The dew temperature at `p` (`None`: a non-volatile component means there is none).
     pub fn dew_temperature(&self, p: Pressure, buffers: &mut SolvedFlash) -> Result<Option<f64>, EnergyError> {
+        if self.water().is_some() {
+            self.flash_spec(FlashSpec::DewTemperature { pressure: p }, None, buffers)?;
+            return Ok(Some(buffers.state.t));
+        }
         match saturation_temperature(&self.k_model, &self.zn, p.pascal(), false, buffers) {
             Ok(t) => Ok(Some(t)),
             Err(crate::equilibrium::FlashError::NoDewPoint { .. }) => Ok(None),
             Err(e) => Err(e.into()),
         }
+    }
+
+    /// With a water phase: the temperature at `p` between `lo` and `hi` where `liquid` first
+    /// appears on cooling (its dew point), with the state there (that liquid incipient)
+    /// written into `out`; `None` without a water phase or where it does not appear.
+    pub fn liquid_dew_temperature(
+        &self,
+        p: Pressure,
+        liquid: Liquid,
+        (lo, hi): (f64, f64),
+        out: &mut SolvedFlash,
+    ) -> Result<Option<f64>, EnergyError> {
+        let Some(w) = self.water() else {
+            return Ok(None);
+        };
+        Ok(liquid_appearance_temperature(
+            &self.k_model,
+            w,
+            &self.zn,
+            p.pascal(),
+            liquid,
+            (lo, hi),
+            out,
+        )?)
     }
 
     /// The duty-specified flash: `inlet` flashed into `inlet_out`, and the state at
@@ -814,7 +897,10 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
         let h_dew = self.saturated_enthalpy(Phase::Vapour, t_dew, p_pa);
         if target >= h_dew {
             single(Phase::Vapour, t_dew, t_dew + 10.0, out)?;
-        } else if t_dew - t_bub > WIDE_TWO_PHASE_K {
+        } else if t_dew - t_bub > WIDE_TWO_PHASE_K && self.water().is_none() {
+            // (With a water phase the enthalpy can jump at constant temperature, at the
+            // three-phase temperature of water and a single organic: vapour fraction, not
+            // temperature, pins every state down.)
             // Start where the enthalpy would be if it ran linearly from bubble to dew point.
             let fraction = ((target - h_bub) / (h_dew - h_bub)).clamp(0.01, 0.99);
             let start = t_bub + fraction * (t_dew - t_bub);

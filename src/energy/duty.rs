@@ -10,7 +10,7 @@ use super::reference::VaporisationPath;
 use super::result::{Curve, CurvePoint, DutyResult, EnergyError, PathSpread};
 use super::stream::{Stream, StreamState};
 use crate::equilibrium::KValueModel;
-use crate::equilibrium::SolvedFlash;
+use crate::equilibrium::{Liquid, SEARCH_MAX_TEMPERATURE_K, SolvedFlash};
 use crate::rachford_rice::Phase;
 use crate::units::{Power, Pressure};
 use std::borrow::Cow;
@@ -335,6 +335,31 @@ fn curve_of<K: KValueModel, H: PhaseEnthalpyModel>(
     if let Some(t) = t_dew {
         breaks.push((t, Phase::Vapour, "dew", 1.0));
     }
+    let mut liquid_dews = [None, None];
+    if calc.water().is_some() {
+        // Each liquid's dew point: where it appears on cooling. The higher is the dew
+        // point; the enthalpy at the lower is that of the state with the other liquid
+        // present and this one incipient.
+        breaks.truncate(1);
+        let hi = t_dew.unwrap_or(SEARCH_MAX_TEMPERATURE_K);
+        for (k, (liquid, name)) in [(Liquid::Aqueous, "water-dew"), (Liquid::Organic, "organic-dew")]
+            .into_iter()
+            .enumerate()
+        {
+            if let Some(t) = calc.liquid_dew_temperature(p, liquid, (t_bub, hi), &mut work)? {
+                liquid_dews[k] = Some(t);
+                let q = flow * (calc.enthalpy(&work) - h_in);
+                if inside(q) {
+                    out.push(CurvePoint {
+                        temperature_k: t,
+                        duty_w: q,
+                        vapour_fraction: work.state.beta,
+                        breakpoint: name,
+                    });
+                }
+            }
+        }
+    }
     for (t, phase, name, beta) in breaks {
         let q = flow * (calc.saturated_enthalpy(phase, t, p.pascal()) - h_in);
         if inside(q) {
@@ -351,6 +376,8 @@ fn curve_of<K: KValueModel, H: PhaseEnthalpyModel>(
         points: out,
         bubble_temperature_k: t_bub,
         dew_temperature_k: t_dew,
+        water_dew_temperature_k: liquid_dews[0],
+        organic_dew_temperature_k: liquid_dews[1],
         pressure_pa: p.pascal(),
         duty_w: total,
         warnings,

@@ -165,7 +165,8 @@ pub struct CurvePoint {
     pub duty_w: f64,
     /// Vapour fraction.
     pub vapour_fraction: f64,
-    /// `"bubble"` or `"dew"` at a breakpoint, else empty.
+    /// `"bubble"` or `"dew"` at a breakpoint (with a water phase, `"bubble"`,
+    /// `"water-dew"` and `"organic-dew"`: where each liquid appears on cooling), else empty.
     #[serde(skip_serializing_if = "str::is_empty")]
     pub breakpoint: &'static str,
 }
@@ -181,6 +182,14 @@ pub struct Curve {
     /// Dew temperature at the curve's pressure, K (`None`: no dew point).
     #[serde(rename = "dew_T_K")]
     pub dew_temperature_k: Option<f64>,
+    /// With a water phase: where the water phase appears on cooling, K (the water dew
+    /// point; `None` without a water phase, or where it does not form).
+    #[serde(rename = "water_dew_T_K", skip_serializing_if = "Option::is_none")]
+    pub water_dew_temperature_k: Option<f64>,
+    /// With a water phase: where the organic liquid appears on cooling, K (the hydrocarbon
+    /// dew point).
+    #[serde(rename = "organic_dew_T_K", skip_serializing_if = "Option::is_none")]
+    pub organic_dew_temperature_k: Option<f64>,
     /// The pressure of every point, Pa (the outlet pressure).
     #[serde(rename = "P_Pa")]
     pub pressure_pa: f64,

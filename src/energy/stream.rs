@@ -2,7 +2,7 @@
 //! or outlet is).
 
 use super::result::EnergyError;
-use crate::equilibrium::{FlashError, FlashSpec};
+use crate::equilibrium::{FlashError, FlashSpec, WaterPhase};
 use crate::library::Library;
 use crate::properties::Component;
 use crate::units::{MassFlow, MolarFlow, Pressure, Temperature};
@@ -23,6 +23,7 @@ pub struct Stream {
     components: Vec<Arc<Component>>,
     z: Vec<f64>,
     flow: MolarFlow,
+    water_phase: Option<WaterPhase>,
 }
 
 impl Stream {
@@ -45,6 +46,7 @@ impl Stream {
             components,
             z: z.iter().map(|v| v / sum).collect(),
             flow,
+            water_phase: None,
         })
     }
 
@@ -91,6 +93,7 @@ impl Stream {
             components,
             z,
             flow: MolarFlow::new("flow", total)?,
+            water_phase: None,
         })
     }
 
@@ -136,6 +139,46 @@ impl Stream {
     /// Total molar flow.
     pub fn flow(&self) -> MolarFlow {
         self.flow
+    }
+
+    /// The stream with an immiscible water phase: water forms a liquid of its own beside
+    /// the organic liquid in every flash, duty, duty-specified flash and curve of the
+    /// stream (see [`WaterPhase`]). Without water in the feed it changes nothing.
+    ///
+    /// # Errors
+    /// [`EnergyError::Flash`] with [`FlashError::NoWater`] where no component is water,
+    /// [`FlashError::MiscibleWithWater`] for a component miscible with water.
+    ///
+    /// ```
+    /// use flashduty::energy::{heater_duty, DutyOptions, Stream, StreamState};
+    /// use flashduty::units::{MolarFlow, Pressure, Temperature};
+    /// // Invented: wet toluene heated from 25 °C to 95 °C at 1 atm.
+    /// let s = Stream::from_names(&["water", "toluene"], &[0.3, 0.7], MolarFlow::parse("flow", "1 mol/s").unwrap()).unwrap();
+    /// let p = Pressure::parse("P", "1 atm").unwrap();
+    /// let at = |t: &str| StreamState::TemperaturePressure { temperature: Temperature::parse("T", t).unwrap(), pressure: p };
+    /// let one_liquid = heater_duty(&s, at("25 degC"), at("95 degC"), DutyOptions::default()).unwrap();
+    /// let wet = s.with_immiscible_water().unwrap();
+    /// let two_liquids = heater_duty(&wet, at("25 degC"), at("95 degC"), DutyOptions::default()).unwrap();
+    /// // The two liquids boil together near 84 °C: at 95 °C much of the stream is vapour.
+    /// assert!(two_liquids.outlet.vapour_fraction > 0.3);
+    /// assert!(one_liquid.outlet.vapour_fraction < 0.1);
+    /// assert!(two_liquids.duty_w > 2.0 * one_liquid.duty_w);
+    /// ```
+    pub fn with_immiscible_water(self) -> Result<Self, EnergyError> {
+        let water = WaterPhase::immiscible(&self.components)?;
+        Ok(self.with_water_phase(water))
+    }
+
+    /// The stream with the given water phase (built for the same components, for example
+    /// with mutual solubilities).
+    pub fn with_water_phase(mut self, water: WaterPhase) -> Self {
+        self.water_phase = Some(water);
+        self
+    }
+
+    /// The water phase, where the stream has one.
+    pub fn water_phase(&self) -> Option<&WaterPhase> {
+        self.water_phase.as_ref()
     }
 }
 

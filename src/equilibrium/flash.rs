@@ -63,6 +63,9 @@ pub(crate) struct SolvedFlash {
     pub x: Vec<f64>,
     /// Vapour mole fractions (meaningful where [`SolvedState::has_vapour`]).
     pub y: Vec<f64>,
+    /// The water phase's part, where the state was solved with one (`x` is then the
+    /// organic and aqueous liquids lumped, as the energy layer sums them).
+    pub water: super::water_phase::WaterState,
 }
 
 impl SolvedFlash {
@@ -73,6 +76,7 @@ impl SolvedFlash {
             kv: KValues::new(n),
             x: vec![0.0; n],
             y: vec![0.0; n],
+            water: Default::default(),
         }
     }
 
@@ -258,6 +262,9 @@ pub(crate) fn flash_result<M: KValueModel + ?Sized>(model: &M, z: &[f64], solved
     let state = solved.state;
     let mut warnings = Vec::new();
     model.warnings(state.t, state.p, &mut warnings);
+    if state.has_liquid {
+        model.feed_warnings(z, &mut warnings);
+    }
     let sensitivity = state_sensitivity(model, z, &solved);
     FlashResult {
         phase: state.phase,
@@ -272,6 +279,7 @@ pub(crate) fn flash_result<M: KValueModel + ?Sized>(model: &M, z: &[f64], solved
         evaluations: state.evaluations,
         warnings,
         sensitivity,
+        water_phase: None,
     }
 }
 

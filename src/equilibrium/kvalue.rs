@@ -85,6 +85,10 @@ pub trait KValueModel {
     /// components, pressure too high for the model). Default: none.
     fn warnings(&self, _t_k: f64, _p_pa: f64, _out: &mut Vec<Warning>) {}
 
+    /// Adds warnings about the feed `z` itself to `out` (Raoult's law warns that water and a
+    /// water-immiscible component in one liquid likely form two). Default: none.
+    fn feed_warnings(&self, _z: &[f64], _out: &mut Vec<Warning>) {}
+
     /// The components' names, for messages. Default: "component 1", "component 2", ...
     fn component_name(&self, index: usize) -> String {
         format!("component {}", index + 1)
@@ -178,6 +182,9 @@ impl<M: KValueModel + ?Sized> KValueModel for &M {
     }
     fn warnings(&self, t_k: f64, p_pa: f64, out: &mut Vec<Warning>) {
         (**self).warnings(t_k, p_pa, out)
+    }
+    fn feed_warnings(&self, z: &[f64], out: &mut Vec<Warning>) {
+        (**self).feed_warnings(z, out)
     }
     fn component_name(&self, index: usize) -> String {
         (**self).component_name(index)
@@ -296,6 +303,30 @@ impl KValueModel for Raoult {
                     limit_pa: RAOULT_PRESSURE_LIMIT_PA,
                 },
             );
+        }
+    }
+
+    fn feed_warnings(&self, z: &[f64], out: &mut Vec<Warning>) {
+        let has = |i: usize| z.get(i).is_some_and(|&v| v > 0.0);
+        let Some(water) = self
+            .components
+            .iter()
+            .position(|c| c.cas() == crate::equilibrium::WATER_CAS)
+        else {
+            return;
+        };
+        if !has(water) {
+            return;
+        }
+        let immiscible: Vec<String> = (0..self.components.len())
+            .filter(|&i| {
+                has(i)
+                    && self.components[i].water_miscibility() == Some(crate::properties::WaterMiscibility::Immiscible)
+            })
+            .map(|i| self.components[i].name().to_string())
+            .collect();
+        if !immiscible.is_empty() {
+            push_unique(out, Warning::SecondLiquidLikely { components: immiscible });
         }
     }
 

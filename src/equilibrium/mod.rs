@@ -42,7 +42,9 @@
 //! `flash.rs` ([`flash`] and the buffer-reusing flash the energy layer runs), `search.rs`
 //! (the bubble, dew and vapour-fraction searches), `sensitivity.rs` (dβ/dT, dβ/dP and the
 //! vapour amounts' slopes, for composition-independent and composition-dependent models),
-//! `tp_flasher.rs` ([`TpFlasher`], the allocation-free T–P flash).
+//! `tp_flasher.rs` ([`TpFlasher`], the allocation-free T–P flash), `water_phase.rs`
+//! ([`WaterPhase`] and [`flash_with_water`]: an immiscible water phase beside the organic
+//! liquid, every specification above with up to three phases).
 
 mod flash;
 mod kvalue;
@@ -50,11 +52,16 @@ mod search;
 mod sensitivity;
 mod spec;
 mod tp_flasher;
+mod water_phase;
 
 pub use flash::{flash, tp_flash};
 pub use kvalue::{GivenK, KValueModel, KValues, Raoult};
 pub use spec::{FlashError, FlashResult, FlashSpec, SEARCH_MAX_TEMPERATURE_K, SEARCH_MIN_TEMPERATURE_K, Sensitivity};
 pub use tp_flasher::TpFlasher;
+pub use water_phase::{WATER_CAS, WaterPhase, WaterSplit, flash_with_water};
 
 pub(crate) use flash::{SolvedFlash, flash_into, flash_result, saturation_temperature};
 pub(crate) use sensitivity::{amount_slopes, sensitivity};
+pub(crate) use water_phase::{
+    Liquid, liquid_appearance_temperature, water_flash_into, water_flash_result, water_warnings,
+};

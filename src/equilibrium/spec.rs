@@ -99,8 +99,14 @@ pub struct FlashResult {
     /// Warnings at the final state.
     pub warnings: Vec<Warning>,
     /// dβ/dT and dβ/dP, where the state is two-phase (`None` also where they overflow, at
-    /// pressures near the smallest float).
+    /// pressures near the smallest float, and at a three-phase temperature where the state
+    /// is not unique at its T and P).
     pub sensitivity: Option<Sensitivity>,
+    /// With an immiscible water phase: the phase set, the organic and aqueous amounts and
+    /// the aqueous composition. `liquid` is then the organic liquid and `liquid_fraction`
+    /// all liquid (organic plus aqueous). `None` without a water phase.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub water_phase: Option<super::water_phase::WaterSplit>,
 }
 
 /// An error from a flash, naming the field and value.
@@ -138,6 +144,44 @@ pub enum FlashError {
         /// Why.
         detail: String,
     },
+    /// The immiscible water phase was asked for where there is no water.
+    #[error("water_phase: {why}")]
+    NoWater {
+        /// Why.
+        why: &'static str,
+    },
+    /// A component that mixes with water in all proportions cannot form a separate organic
+    /// liquid beside a water phase.
+    #[error(
+        "water_phase: '{component}' is miscible with water (library), so it cannot be in the water-immiscible organic liquid; leave out water_phase for this feed"
+    )]
+    MiscibleWithWater {
+        /// The component.
+        component: String,
+    },
+    /// A mutual solubility outside [0, 1).
+    #[error("{field}: {value} is refused: {why}")]
+    Solubility {
+        /// The field, e.g. `water_phase.water_in_organic`.
+        field: String,
+        /// The value.
+        value: f64,
+        /// Why.
+        why: &'static str,
+    },
+    /// The water phase was asked for with a model it does not take.
+    #[error("water_phase: {detail}")]
+    WaterPhaseModel {
+        /// What is not supported.
+        detail: &'static str,
+    },
+    /// The mixture has no bubble point: a component with feed in it does not dissolve in
+    /// any liquid.
+    #[error("no bubble point: '{component}' dissolves in neither liquid, so the mixture never fully condenses")]
+    NoBubblePoint {
+        /// The component.
+        component: String,
+    },
     /// A composition-dependent model's outer loop did not settle.
     #[error("{what}: the composition loop did not converge in {rounds} rounds")]
     NotConverged {
@@ -164,6 +208,11 @@ impl FlashError {
             FlashError::NoDewPoint { .. } => "no-dew-point",
             FlashError::NoSolution { .. } => "no-solution",
             FlashError::NotConverged { .. } => "not-converged",
+            FlashError::NoWater { .. } => "no-water",
+            FlashError::MiscibleWithWater { .. } => "miscible-with-water",
+            FlashError::Solubility { .. } => "solubility-out-of-range",
+            FlashError::WaterPhaseModel { .. } => "water-phase-model",
+            FlashError::NoBubblePoint { .. } => "no-bubble-point",
         }
     }
 }

@@ -474,6 +474,7 @@ impl UserComponentBuilder {
             liquid_heat_capacity: Some(liquid_cp),
             vapour_heat_capacity: vapour_cp,
             latent_heat: Some(latent),
+            water_miscibility: None,
         };
 
         // The bibliography: the user's source, added sources, and built-in keys cited.

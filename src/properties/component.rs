@@ -328,6 +328,51 @@ pub(crate) struct ComponentRecord {
     pub vapour_heat_capacity: HeatCapacityRecord,
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub latent_heat: Option<LatentHeatRecord>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub water_miscibility: Option<WaterMiscibilityRecord>,
+}
+
+/// How a component mixes with liquid water, as the library records it.
+///
+/// ```
+/// use flashduty::library::Library;
+/// use flashduty::properties::WaterMiscibility;
+/// let lib = Library::builtin();
+/// assert_eq!(lib.get("toluene").unwrap().water_miscibility(), Some(WaterMiscibility::Immiscible));
+/// assert_eq!(lib.get("ethanol").unwrap().water_miscibility(), Some(WaterMiscibility::Miscible));
+/// ```
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum WaterMiscibility {
+    /// Below 2 mass % soluble in water at 25 °C (common practice for "insoluble"): forms a
+    /// liquid of its own beside water.
+    Immiscible,
+    /// Soluble in water to a few tens of mass % but not in all proportions.
+    PartiallyMiscible,
+    /// Mixes with water in all proportions.
+    Miscible,
+}
+
+impl WaterMiscibility {
+    /// The name in component files and reports.
+    pub fn name(self) -> &'static str {
+        match self {
+            WaterMiscibility::Immiscible => "immiscible",
+            WaterMiscibility::PartiallyMiscible => "partially-miscible",
+            WaterMiscibility::Miscible => "miscible",
+        }
+    }
+}
+
+/// The `water_miscibility` entry of the component-file schema: the class and, where known,
+/// the solubility in water at 25 °C in mass %.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub(crate) struct WaterMiscibilityRecord {
+    pub class: WaterMiscibility,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub solubility_in_water_mass_percent: Option<f64>,
+    #[serde(flatten)]
+    pub provenance: ProvenanceFields,
 }
 
 impl ComponentRecord {
@@ -755,6 +800,19 @@ impl Component {
             LatentHeatRecord::Watson { provenance, .. } | LatentHeatRecord::Dippr106 { provenance, .. } => provenance,
         };
         provenance.push(("latent_heat".to_string(), lh.into()));
+        if let Some(w) = &record.water_miscibility {
+            if let Some(s) = w.solubility_in_water_mass_percent
+                && !(s.is_finite() && (0.0..=100.0).contains(&s))
+            {
+                return Err(invalid(
+                    n,
+                    "water_miscibility.solubility_in_water_mass_percent",
+                    s,
+                    "must lie in [0, 100]",
+                ));
+            }
+            provenance.push(("water_miscibility".to_string(), (&w.provenance).into()));
+        }
         check_sources(n, &provenance, sources)?;
 
         Ok(Self {
@@ -774,6 +832,20 @@ impl Component {
             provenance,
             record,
         })
+    }
+
+    /// How the component mixes with liquid water (`None`: not recorded, as in most user
+    /// components).
+    pub fn water_miscibility(&self) -> Option<WaterMiscibility> {
+        self.record.water_miscibility.as_ref().map(|w| w.class)
+    }
+
+    /// The solubility in water at 25 °C, mass %, where the library records it.
+    pub fn water_solubility_mass_percent(&self) -> Option<f64> {
+        self.record
+            .water_miscibility
+            .as_ref()
+            .and_then(|w| w.solubility_in_water_mass_percent)
     }
 
     /// The component's name as the library spells it.

@@ -16,7 +16,7 @@ mod vapour_pressure;
 mod virial;
 
 pub use checks::{BOILING_POINT_TOLERANCE, ComponentChecks, LATENT_HEAT_TOLERANCE};
-pub use component::{Component, ComponentError, ComponentKind, Gas, Provenance, Sourced};
+pub use component::{Component, ComponentError, ComponentKind, Gas, Provenance, Sourced, WaterMiscibility};
 pub use heat_capacity::{ConstantCp, HeatCapacity, HeatCapacityModel, PolynomialCp, ShomateCp};
 pub use latent_heat::{Dippr106, LatentHeat, LatentHeatModel, Watson};
 pub use range::ValidityRange;

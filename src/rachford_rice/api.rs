@@ -79,6 +79,32 @@ pub enum RachfordRiceError {
         /// The value.
         value: f64,
     },
+    /// A liquid's K-value in the three-phase split that is not positive (infinite is
+    /// allowed: the component is absent from that liquid).
+    #[error(
+        "{field}[{index}]: K-value {value} must be positive (infinite where the component is absent from that liquid)"
+    )]
+    KValueNotPositive {
+        /// "K_organic" or "K_aqueous".
+        field: &'static str,
+        /// Zero-based component index.
+        index: usize,
+        /// The value.
+        value: f64,
+    },
+    /// A component with feed in it can be in none of the phases allowed (the vapour held at
+    /// zero and the component absent from both liquids).
+    #[error("z[{index}]: the component is in neither liquid and the vapour is held at zero, so it has nowhere to go")]
+    NoPhaseFor {
+        /// Zero-based component index.
+        index: usize,
+    },
+    /// The three-phase minimisation reached its iteration cap.
+    #[error("three-phase split: no convergence in {iterations} Newton steps")]
+    NotConverged {
+        /// Steps taken.
+        iterations: u32,
+    },
 }
 
 impl RachfordRiceError {
@@ -97,6 +123,9 @@ impl RachfordRiceError {
             RachfordRiceError::NegativeMoleFraction { .. } => "negative-mole-fraction",
             RachfordRiceError::MoleFractionSum { .. } => "mole-fraction-sum",
             RachfordRiceError::NegativeKValue { .. } => "negative-k-value",
+            RachfordRiceError::KValueNotPositive { .. } => "k-value-not-positive",
+            RachfordRiceError::NoPhaseFor { .. } => "no-phase-for-component",
+            RachfordRiceError::NotConverged { .. } => "not-converged",
         }
     }
 }

@@ -92,7 +92,8 @@
 //! Files: `api.rs` (types, the feed check, entry points), `dispatch.rs` (the AVX2 build and
 //! the solver body), `window.rs` (set-up pass and window), `iterate.rs` (the Halley
 //! iteration and write-back), `double_double.rs` (the polish arithmetic), `negative.rs`
-//! (the negative flash), `batch.rs` (rows of `ndarray`s).
+//! (the negative flash), `batch.rs` (rows of `ndarray`s), `three_phase.rs` (vapour, organic
+//! and aqueous liquids: [`three_phase_split`], Michelsen's convex formulation).
 
 mod api;
 mod batch;
@@ -102,6 +103,7 @@ mod iterate;
 mod negative;
 #[cfg(test)]
 mod tests;
+mod three_phase;
 mod window;
 
 pub use api::{
@@ -111,3 +113,5 @@ pub use api::{
 pub use batch::{BatchOutput, BatchShapeError, solve_batch, solve_batch_with};
 #[cfg(feature = "rayon")]
 pub use batch::{par_solve_batch, par_solve_batch_with};
+pub(crate) use three_phase::{Minimum, Problem};
+pub use three_phase::{PhaseSet, ThreePhaseSplit, three_phase_split};
