@@ -354,3 +354,305 @@ proptest! {
         }
     }
 }
+
+// ---------------------------------------------------------------------------------------
+// Energy: duty, duty-specified flash and curves with the water phase.
+
+use flashduty::energy::StreamState;
+use flashduty::energy::{DutyOptions, Stream, heater_duty, heating_curve, outlet_for_duty};
+use flashduty::units::{MolarFlow, Power};
+
+fn tp(t_k: f64, p: Pressure) -> StreamState {
+    StreamState::TemperaturePressure {
+        temperature: Temperature::new("T", t_k).unwrap(),
+        pressure: p,
+    }
+}
+
+/// Water–toluene vapour (invented: 60 % water, 36 kmol/h) cooled at 1 atm from 110 °C to
+/// 40 °C, checked by hand: the water dew point is where 0.6 atm is water's vapour pressure
+/// (IAPWS-IF97, tests/fixtures); the hydrocarbon dew point and the plateau are at the
+/// three-phase temperature, within 1 K of the handbook azeotrope (84.1 °C, CRC, from
+/// memory); along the plateau the vapour keeps y_water = psat_water(T*)/P, so the
+/// plateau starts at vapour fraction z_toluene / (1 − y_water) and ends at 0.
+#[test]
+fn water_toluene_condenser_cooling_curve_by_hand() {
+    let stream = Stream::from_names(
+        &["water", "toluene"],
+        &[0.6, 0.4],
+        MolarFlow::parse("flow", "36 kmol/h").unwrap(),
+    )
+    .unwrap()
+    .with_immiscible_water()
+    .unwrap();
+    let c = heating_curve(
+        &stream,
+        tp(383.15, atm()),
+        tp(313.15, atm()),
+        41,
+        DutyOptions::default(),
+    )
+    .unwrap();
+    let water_dew = c.water_dew_temperature_k.unwrap();
+    let organic_dew = c.organic_dew_temperature_k.unwrap();
+    let psat_ratio = iapws_psat(water_dew) / (0.6 * 101_325.0);
+    assert!(
+        (psat_ratio - 1.0).abs() < 0.005,
+        "water dew {water_dew} K: psat ratio {psat_ratio}"
+    );
+    assert!((c.dew_temperature_k.unwrap() - water_dew).abs() < 1e-9);
+    assert!(
+        (organic_dew - c.bubble_temperature_k).abs() < 1e-6,
+        "{organic_dew} vs {}",
+        c.bubble_temperature_k
+    );
+    assert!((organic_dew - 273.15 - 84.1).abs() < 1.0);
+    let y_water = iapws_psat(organic_dew) / 101_325.0;
+    let plateau_start = 0.4 / (1.0 - y_water);
+    let marks: Vec<&str> = c
+        .points
+        .iter()
+        .map(|p| p.breakpoint)
+        .filter(|b| !b.is_empty())
+        .collect();
+    assert_eq!(marks, vec!["water-dew", "organic-dew", "bubble"]);
+    let organic = c.points.iter().find(|p| p.breakpoint == "organic-dew").unwrap();
+    assert!(
+        (organic.vapour_fraction - plateau_start).abs() < 0.005,
+        "{} vs {plateau_start}",
+        organic.vapour_fraction
+    );
+    // Between the organic dew point and the bubble point the temperature is flat.
+    for p in &c.points {
+        if p.vapour_fraction < organic.vapour_fraction && p.vapour_fraction > 0.0 {
+            assert!((p.temperature_k - organic_dew).abs() < 1e-6, "{p:?}");
+        }
+    }
+    // Cooling: duty and temperature fall together, vapour fraction never rises.
+    for w in c.points.windows(2) {
+        assert!(
+            w[1].duty_w <= w[0].duty_w && w[1].temperature_k <= w[0].temperature_k + 1e-9,
+            "{w:?}"
+        );
+        assert!(w[1].vapour_fraction <= w[0].vapour_fraction + 1e-12, "{w:?}");
+    }
+    // The plateau's duty is the two latent heats of what condenses there, about
+    // (0.6 − 0.556 × 0.902) × 40.7 kJ/mol for water plus 0.4 × 33.2 kJ/mol for toluene
+    // per mole (CRC latent heats at the normal boiling points, from memory, within 10 %).
+    let bubble = c.points.iter().find(|p| p.breakpoint == "bubble").unwrap();
+    let plateau_kw = (organic.duty_w - bubble.duty_w) / 1e3;
+    let flow = 36_000.0 / 3600.0;
+    let by_hand = flow * (plateau_start * y_water * 41_000.0 + 0.4 * 33_500.0) / 1e3;
+    assert!(
+        (plateau_kw / by_hand - 1.0).abs() < 0.1,
+        "{plateau_kw} kW vs {by_hand} kW by hand"
+    );
+}
+
+#[test]
+fn duty_given_lands_on_the_plateau_and_back() {
+    let stream = Stream::from_names(&["water", "toluene"], &[0.5, 0.5], MolarFlow::new("flow", 1.0).unwrap())
+        .unwrap()
+        .with_immiscible_water()
+        .unwrap();
+    let inlet = tp(300.0, atm());
+    // Both liquids boil off at the three-phase temperature until the water is gone, at
+    // vapour fraction 0.5 / y_water ≈ 0.90.
+    for beta in [0.05, 0.3, 0.7, 0.85] {
+        let outlet = StreamState::PressureVapourFraction {
+            pressure: atm(),
+            vapour_fraction: beta,
+        };
+        let d = heater_duty(&stream, inlet, outlet, DutyOptions::default()).unwrap();
+        assert_eq!(
+            d.outlet.water_phase.as_ref().unwrap().phase_set,
+            PhaseSet::VapourOrganicAqueous
+        );
+        let back = outlet_for_duty(
+            &stream,
+            inlet,
+            Power::new("duty", d.duty_w).unwrap(),
+            atm(),
+            DutyOptions::default(),
+        )
+        .unwrap();
+        assert!(
+            (back.outlet.vapour_fraction - beta).abs() < 1e-9,
+            "{beta}: {}",
+            back.outlet.vapour_fraction
+        );
+        assert!((back.outlet.temperature_k - d.outlet.temperature_k).abs() < 1e-6);
+        // At the three-phase temperature the duty jumps at constant T: no dQ/dT.
+        assert!(d.dduty_dt_out_w_per_k.is_none());
+    }
+}
+
+fn wet_stream(names: &[&str], z: &[f64]) -> Stream {
+    Stream::from_names(names, z, MolarFlow::new("flow", 2.0).unwrap())
+        .unwrap()
+        .with_immiscible_water()
+        .unwrap()
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(60))]
+
+    /// The duty is a state function: A→B plus B→C is A→C, and the duty-specified flash
+    /// finds the outlet again.
+    #[test]
+    fn duty_is_a_state_function_with_water((names, z, _, _) in organic_feed(), ts in proptest::collection::vec(280.0f64..480.0, 3)) {
+        let s = wet_stream(&names, &z);
+        let o = DutyOptions::default();
+        let ab = heater_duty(&s, tp(ts[0], atm()), tp(ts[1], atm()), o).unwrap().duty_w;
+        let bc = heater_duty(&s, tp(ts[1], atm()), tp(ts[2], atm()), o).unwrap().duty_w;
+        let ac = heater_duty(&s, tp(ts[0], atm()), tp(ts[2], atm()), o).unwrap();
+        prop_assert!((ab + bc - ac.duty_w).abs() <= 1e-9 * (ab.abs() + bc.abs()).max(1.0), "{ab} + {bc} vs {}", ac.duty_w);
+        // The enthalpy table adds up to the duty.
+        let table: f64 = ac.table.iter().map(|r| r.sign() * r.enthalpy_flow_w).sum();
+        prop_assert!((table - ac.duty_w).abs() <= 1e-9 * ac.duty_w.abs().max(1.0));
+        let back = outlet_for_duty(&s, tp(ts[0], atm()), Power::new("duty", ac.duty_w).unwrap(), atm(), o).unwrap();
+        let h_back = back.outlet_enthalpy_j_per_mol;
+        prop_assert!((h_back - ac.outlet_enthalpy_j_per_mol).abs() <= 1e-7 * ac.outlet_enthalpy_j_per_mol.abs().max(1e3), "{h_back} vs {}", ac.outlet_enthalpy_j_per_mol);
+        // dQ/dT by central differences where the outlet is not at a three-phase temperature.
+        if let Some(dq) = ac.dduty_dt_out_w_per_k {
+            let h = 1e-4;
+            let up = heater_duty(&s, tp(ts[0], atm()), tp(ts[2] + h, atm()), o).unwrap().duty_w;
+            let down = heater_duty(&s, tp(ts[0], atm()), tp(ts[2] - h, atm()), o).unwrap().duty_w;
+            let fd = (up - down) / (2.0 * h);
+            // Skip states within the step of a phase boundary (the slope jumps there).
+            let same_phases = |x: &flashduty::energy::DutyResult| x.outlet.water_phase.as_ref().map(|w| w.phase_set);
+            let a = heater_duty(&s, tp(ts[0], atm()), tp(ts[2] + h, atm()), o).unwrap();
+            let b = heater_duty(&s, tp(ts[0], atm()), tp(ts[2] - h, atm()), o).unwrap();
+            if same_phases(&a) == same_phases(&b) {
+                prop_assert!((fd - dq).abs() <= 1e-4 * dq.abs().max(1.0), "fd {fd} vs {dq}");
+            }
+        }
+    }
+}
+
+// ---------------------------------------------------------------------------------------
+// The case key `water_phase`.
+
+use flashduty::case::{Command, Outcome, parse_case, run};
+use flashduty::library::Library;
+
+fn case_error(value: serde_json::Value, command: Command) -> String {
+    let lib = Library::builtin();
+    match parse_case(&value, command).and_then(|c| run(lib, command, &c, None)) {
+        Ok(_) => panic!("accepted: {value}"),
+        Err(e) => e.to_string(),
+    }
+}
+
+#[test]
+fn case_key_runs_every_command_and_reports_the_phases() {
+    let lib = Library::builtin();
+    let case = serde_json::json!({
+        "components": ["water", "toluene"], "z": [0.3, 0.7], "P": "1 atm",
+        "water_phase": "immiscible", "flow": "1 mol/s"
+    });
+    let c = parse_case(&case, Command::Bubble).unwrap();
+    let out = run(lib, Command::Bubble, &c, None).unwrap();
+    let j = out.to_json();
+    assert_eq!(j["phase_set"], "organic+aqueous");
+    assert_eq!(j["aqueous_fraction"], 0.3);
+    assert!((j["T_K"].as_f64().unwrap() - 273.15 - 84.1).abs() < 1.0);
+    assert_eq!(j["aqueous_flow_mol_s"], 0.3);
+    let case = serde_json::json!({
+        "components": ["water", "toluene"], "z": [0.3, 0.7],
+        "water_phase": {"model": "immiscible", "water_in_organic": 0.0025, "organic_in_water": {"toluene": 1e-4}},
+        "inlet": {"T": "25 degC", "P": "1 atm"}, "outlet": {"T": "95 degC", "P": "1 atm"}
+    });
+    for command in [Command::Duty, Command::Curve] {
+        let c = parse_case(&case, command).unwrap();
+        let out = run(lib, command, &c, None).unwrap();
+        let j = out.to_json();
+        match out {
+            Outcome::Duty(_) => assert_eq!(j["outlet"]["phase_set"], "vapour+organic"),
+            Outcome::Curve(_) => assert!(j["organic_dew_T_K"].as_f64().is_some()),
+            _ => unreachable!(),
+        }
+    }
+    // Without the option the same feed warns.
+    let case = serde_json::json!({"components": ["water", "toluene"], "z": [0.3, 0.7], "P": "1 atm"});
+    let c = parse_case(&case, Command::Bubble).unwrap();
+    let j = run(lib, Command::Bubble, &c, None).unwrap().to_json();
+    assert_eq!(j["warnings"][0]["kind"], "second-liquid-likely");
+    assert!(j.get("phase_set").is_none());
+}
+
+#[test]
+fn case_key_errors_name_the_field() {
+    let base = |water_phase: serde_json::Value, z: [f64; 2], names: [&str; 2]| serde_json::json!({"components": names, "z": z, "P": "1 atm", "water_phase": water_phase});
+    let e = case_error(base("maybe".into(), [0.5, 0.5], ["water", "toluene"]), Command::Bubble);
+    assert_eq!(e, "water_phase: 'maybe' is not one of one-liquid, immiscible");
+    let e = case_error(
+        base("immiscible".into(), [0.0, 1.0], ["water", "toluene"]),
+        Command::Bubble,
+    );
+    assert!(e.starts_with("water_phase: the feed holds no water"), "{e}");
+    let e = case_error(
+        base("immiscible".into(), [0.5, 0.5], ["benzene", "toluene"]),
+        Command::Bubble,
+    );
+    assert!(e.starts_with("water_phase: the feed holds no water"), "{e}");
+    let e = case_error(
+        base("immiscible".into(), [0.5, 0.5], ["water", "acetone"]),
+        Command::Bubble,
+    );
+    assert!(e.contains("'acetone' is miscible with water"), "{e}");
+    let e = case_error(
+        base(
+            serde_json::json!({"model": "immiscible", "water_in_organic": 1.5}),
+            [0.5, 0.5],
+            ["water", "toluene"],
+        ),
+        Command::Bubble,
+    );
+    assert_eq!(
+        e,
+        "water_phase.water_in_organic: 1.5 is refused: a solubility is a mole fraction in [0, 1)"
+    );
+    let e = case_error(
+        base(
+            serde_json::json!({"model": "immiscible", "organic_in_water": {"toluene": -0.1}}),
+            [0.5, 0.5],
+            ["water", "toluene"],
+        ),
+        Command::Bubble,
+    );
+    assert!(
+        e.starts_with("water_phase.organic_in_water.toluene: -0.1 is refused"),
+        "{e}"
+    );
+    let e = case_error(
+        base(
+            serde_json::json!({"model": "immiscible", "organic_in_water": {"benzene": 1e-4}}),
+            [0.5, 0.5],
+            ["water", "toluene"],
+        ),
+        Command::Bubble,
+    );
+    assert_eq!(
+        e,
+        "water_phase.organic_in_water.benzene: 'benzene' is not a component of the feed"
+    );
+    let e = case_error(
+        base(
+            serde_json::json!({"model": "immiscible", "solubility": 1e-4}),
+            [0.5, 0.5],
+            ["water", "toluene"],
+        ),
+        Command::Bubble,
+    );
+    assert!(e.starts_with("unknown key 'water_phase.solubility'"), "{e}");
+    let e = case_error(
+        base(
+            serde_json::json!({"water_in_organic": 1e-3}),
+            [0.5, 0.5],
+            ["water", "toluene"],
+        ),
+        Command::Bubble,
+    );
+    assert!(e.starts_with("water_phase.model: missing"), "{e}");
+}

@@ -66,8 +66,9 @@ impl Command {
                 "P",
                 "vapour_fraction",
                 "flow",
+                "water_phase",
             ],
-            Command::Bubble | Command::Dew => &["note", "components", "z", "flows", "T", "P", "flow"],
+            Command::Bubble | Command::Dew => &["note", "components", "z", "flows", "T", "P", "flow", "water_phase"],
             Command::Duty => &[
                 "note",
                 "components",
@@ -80,6 +81,7 @@ impl Command {
                 "reference",
                 "path",
                 "vapour_model",
+                "water_phase",
             ],
             Command::Curve => &[
                 "note",
@@ -94,6 +96,7 @@ impl Command {
                 "path",
                 "vapour_model",
                 "points",
+                "water_phase",
             ],
         }
     }
@@ -117,7 +120,11 @@ pub const TOP_KEYS: &[&str] = &[
     "path",
     "vapour_model",
     "points",
+    "water_phase",
 ];
+
+/// Keys of a `water_phase` object.
+pub const WATER_PHASE_KEYS: &[&str] = &["model", "water_in_organic", "organic_in_water"];
 
 /// Keys of `inlet` and `outlet`.
 pub const STATE_KEYS: &[&str] = &["T", "P", "vapour_fraction"];
@@ -162,6 +169,9 @@ const ALIASES: &[(&str, &str)] = &[
     ("vapor_model", "vapour_model"),
     ("vapour", "vapour_model"),
     ("vapor", "vapour_model"),
+    ("water", "water_phase"),
+    ("free_water", "water_phase"),
+    ("aqueous_phase", "water_phase"),
 ];
 
 /// A total flow: molar, or mass (converted with the stream's molar mass later).
@@ -229,6 +239,18 @@ pub struct Case {
     pub vapour_model: Option<VapourModel>,
     /// Curve points.
     pub points: Option<usize>,
+    /// The immiscible water phase, where asked for.
+    pub water_phase: Option<WaterPhaseInput>,
+}
+
+/// The `water_phase` key: water forms a liquid of its own beside the organic liquid, with
+/// the mutual solubilities given (mole fractions; zero where not given).
+#[derive(Debug, Clone, PartialEq, Default)]
+pub struct WaterPhaseInput {
+    /// Mole fraction of water in the organic liquid.
+    pub water_in_organic: f64,
+    /// Mole fractions of organic components in the water phase, by name.
+    pub organic_in_water: Vec<(String, f64)>,
 }
 
 /// The most points a curve may have (each is a flash; more would only take time).
@@ -638,6 +660,53 @@ fn reference(v: &Value) -> CaseResult<ReferenceState> {
     Ok(r)
 }
 
+/// The water-phase models by name: `"one-liquid"` (the default: no water phase) and
+/// `"immiscible"`.
+const WATER_PHASE_MODELS: [&str; 2] = ["one-liquid", "immiscible"];
+
+fn water_model(field: &str, v: &Value) -> CaseResult<bool> {
+    match v.as_str().map(|s| s.trim().to_ascii_lowercase()).as_deref() {
+        Some("immiscible") => Ok(true),
+        Some("one-liquid") => Ok(false),
+        _ => bail!("{field}: {} is not one of {}", show(v), WATER_PHASE_MODELS.join(", ")),
+    }
+}
+
+fn solubility(field: &str, v: &Value) -> CaseResult<f64> {
+    let x = number(field, v)?;
+    if !(0.0..1.0).contains(&x) {
+        bail!("{field}: {x} is refused: a solubility is a mole fraction in [0, 1)");
+    }
+    Ok(x)
+}
+
+/// `water_phase`: `"immiscible"`, `"one-liquid"`, or an object with `model` and the
+/// solubilities.
+fn water_phase(v: &Value) -> CaseResult<Option<WaterPhaseInput>> {
+    let Some(map) = v.as_object() else {
+        return Ok(water_model("water_phase", v)?.then(WaterPhaseInput::default));
+    };
+    check_keys(map, "water_phase.", WATER_PHASE_KEYS)?;
+    let on = match map.get("model") {
+        Some(m) => water_model("water_phase.model", m)?,
+        None => bail!("water_phase.model: missing (give \"immiscible\")"),
+    };
+    let mut input = WaterPhaseInput::default();
+    if let Some(x) = map.get("water_in_organic") {
+        input.water_in_organic = solubility("water_phase.water_in_organic", x)?;
+    }
+    if let Some(o) = map.get("organic_in_water") {
+        for (name, x) in object("water_phase.organic_in_water", o)? {
+            let field = format!("water_phase.organic_in_water.{name}");
+            input.organic_in_water.push((name.clone(), solubility(&field, x)?));
+        }
+    }
+    if !on && input != WaterPhaseInput::default() {
+        bail!("water_phase: solubilities are given but the model is \"one-liquid\"; use \"immiscible\"");
+    }
+    Ok(on.then_some(input))
+}
+
 fn path(v: &Value) -> CaseResult<VaporisationPath> {
     one_of("path", v, &VaporisationPath::ALL, |p| p.name())
 }
@@ -702,6 +771,7 @@ pub fn parse_case(value: &Value, command: Command) -> CaseResult<Case> {
             "path" => case.path = Some(path(v)?),
             "vapour_model" => case.vapour_model = Some(vapour_model(v)?),
             "points" => case.points = Some(points("points", v)?),
+            "water_phase" => case.water_phase = water_phase(v)?,
             _ => return Err(unknown_key("", key, TOP_KEYS)),
         }
     }

@@ -3,12 +3,14 @@
 //! results for output (`to_json` here, human-readable text in `text.rs`).
 
 use super::error::{CaseError, CaseResult, bail};
-use super::parse::{Case, Command, ComponentFlow, StateInput, TotalFlow};
+use super::parse::{Case, Command, ComponentFlow, StateInput, TotalFlow, WaterPhaseInput};
 use crate::energy::{
     Curve, DutyOptions, DutyResult, EnthalpyRow, Stream, StreamState, VapourModel, heater_duty, heating_curve,
     outlet_for_duty,
 };
-use crate::equilibrium::{FlashResult, FlashSpec, Raoult, Sensitivity, flash};
+use crate::equilibrium::{
+    FlashResult, FlashSpec, Raoult, Sensitivity, WATER_CAS, WaterPhase, WaterSplit, flash, flash_with_water,
+};
 use crate::library::Library;
 use crate::properties::Component;
 use crate::rachford_rice::{Phase, rachford_rice};
@@ -63,6 +65,9 @@ pub struct State {
     pub sensitivity: Option<Sensitivity>,
     /// Warnings.
     pub warnings: Vec<Warning>,
+    /// With a water phase: the phase set, organic and aqueous amounts and the aqueous
+    /// composition (`x` is then the organic liquid).
+    pub water: Option<WaterSplit>,
 }
 
 impl From<&FlashResult> for State {
@@ -79,6 +84,7 @@ impl From<&FlashResult> for State {
             iterations: r.iterations,
             sensitivity: r.sensitivity,
             warnings: r.warnings.clone(),
+            water: r.water_phase.clone(),
         }
     }
 }
@@ -202,6 +208,10 @@ pub fn feed(lib: &Library, case: &Case) -> CaseResult<Feed> {
             Stream::from_component_flows(comps, &molar)?
         }
     };
+    let stream = match &case.water_phase {
+        Some(input) => with_water_phase(stream, input)?,
+        None => stream,
+    };
     let flow_given = case.flow.is_some() || case.flows.is_some();
     Ok(Feed {
         names: Some(stream.components().iter().map(|c| c.name().to_string()).collect()),
@@ -209,6 +219,35 @@ pub fn feed(lib: &Library, case: &Case) -> CaseResult<Feed> {
         flow_mol_s: flow_given.then(|| stream.flow().mol_per_s()),
         stream: Some(stream),
     })
+}
+
+/// The stream with the case's water phase: water must be in the feed, and every named
+/// solubility must be of an organic component of the feed.
+fn with_water_phase(stream: Stream, input: &WaterPhaseInput) -> CaseResult<Stream> {
+    let comps = stream.components();
+    let Some(w) = comps.iter().position(|c| c.cas() == WATER_CAS) else {
+        bail!("water_phase: the feed holds no water (add water to components, or leave water_phase out)");
+    };
+    if stream.z()[w] <= 0.0 {
+        bail!("water_phase: the feed holds no water (its mole fraction is 0; leave water_phase out)");
+    }
+    let mut water = WaterPhase::immiscible(comps)?.with_water_in_organic(input.water_in_organic)?;
+    for (name, x) in &input.organic_in_water {
+        let field = format!("water_phase.organic_in_water.{name}");
+        let found = comps.iter().position(|c| {
+            c.name().eq_ignore_ascii_case(name.trim())
+                || c.cas() == name.trim()
+                || c.synonyms().iter().any(|s| s.eq_ignore_ascii_case(name.trim()))
+        });
+        match found {
+            Some(i) if i == w => bail!(
+                "{field}: water is the water phase itself; give its solubility in the organic liquid as water_in_organic"
+            ),
+            Some(i) => water = water.with_solubility_in_water(i, *x)?,
+            None => bail!("{field}: '{name}' is not a component of the feed"),
+        }
+    }
+    Ok(stream.with_water_phase(water))
 }
 
 fn which(state: &StateInput) -> String {
@@ -289,6 +328,7 @@ fn k_flash(case: &Case) -> CaseResult<FlashOutcome> {
         iterations: split.iterations,
         sensitivity: None,
         warnings: Vec::new(),
+        water: None,
     };
     Ok(FlashOutcome {
         command: Command::Flash,
@@ -309,7 +349,10 @@ fn flash_with(feed: Feed, command: Command, spec_name: &'static str, spec: Flash
         bail!("components: missing");
     };
     let model = Raoult::new(stream.components().to_vec());
-    let r = flash(&model, &feed.z, spec)?;
+    let r = match stream.water_phase() {
+        Some(w) => flash_with_water(&model, w, &feed.z, spec)?,
+        None => flash(&model, &feed.z, spec)?,
+    };
     Ok(FlashOutcome {
         command,
         spec: spec_name,
@@ -524,6 +567,12 @@ pub fn state_json(names: Option<&[String]>, s: &State) -> Value {
         })),
         "warnings": warnings_json(&s.warnings),
     });
+    if let (Value::Object(m), Some(w)) = (&mut v, &s.water) {
+        m.insert("phase_set".into(), json!(w.phase_set.name()));
+        m.insert("organic_fraction".into(), json!(w.organic_fraction));
+        m.insert("aqueous_fraction".into(), json!(w.aqueous_fraction));
+        m.insert("x_aqueous".into(), json!(w.aqueous));
+    }
     if let Value::Object(m) = &mut v {
         // At a bubble point the vapour is incipient; at a dew point the liquid is.
         if s.phase == Phase::Liquid && s.y.is_some() {
@@ -585,6 +634,10 @@ impl Outcome {
                         m.insert("flow_mol_s".into(), json!(flow));
                         m.insert("liquid_flow_mol_s".into(), json!(flow * f.state.liquid_fraction));
                         m.insert("vapour_flow_mol_s".into(), json!(flow * f.state.vapour_fraction));
+                        if let Some(w) = &f.state.water {
+                            m.insert("organic_flow_mol_s".into(), json!(flow * w.organic_fraction));
+                            m.insert("aqueous_flow_mol_s".into(), json!(flow * w.aqueous_fraction));
+                        }
                     }
                 }
                 v
@@ -637,6 +690,8 @@ impl Outcome {
                     "points": points,
                     "bubble_T_K": c.curve.bubble_temperature_k,
                     "dew_T_K": c.curve.dew_temperature_k,
+                    "water_dew_T_K": c.curve.water_dew_temperature_k,
+                    "organic_dew_T_K": c.curve.organic_dew_temperature_k,
                     "P_Pa": c.curve.pressure_pa,
                     "duty_W": c.curve.duty_w,
                     "components": names,

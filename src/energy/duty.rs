@@ -10,7 +10,7 @@ use super::reference::VaporisationPath;
 use super::result::{Curve, CurvePoint, DutyResult, EnergyError, PathSpread};
 use super::stream::{Stream, StreamState};
 use crate::equilibrium::KValueModel;
-use crate::equilibrium::{Liquid, SEARCH_MAX_TEMPERATURE_K, SolvedFlash};
+use crate::equilibrium::{Liquid, SEARCH_MAX_TEMPERATURE_K, SEARCH_MIN_TEMPERATURE_K, SolvedFlash};
 use crate::rachford_rice::Phase;
 use crate::units::{Power, Pressure};
 use std::borrow::Cow;
@@ -341,12 +341,16 @@ fn curve_of<K: KValueModel, H: PhaseEnthalpyModel>(
         // point; the enthalpy at the lower is that of the state with the other liquid
         // present and this one incipient.
         breaks.truncate(1);
-        let hi = t_dew.unwrap_or(SEARCH_MAX_TEMPERATURE_K);
+        let hi = t_dew.map_or(SEARCH_MAX_TEMPERATURE_K, |t| (t + 1.0).min(SEARCH_MAX_TEMPERATURE_K));
         for (k, (liquid, name)) in [(Liquid::Aqueous, "water-dew"), (Liquid::Organic, "organic-dew")]
             .into_iter()
             .enumerate()
         {
-            if let Some(t) = calc.liquid_dew_temperature(p, liquid, (t_bub, hi), &mut work)? {
+            // From a kelvin below the bubble point to one above the dew point: a liquid that
+            // appears right at either (at a three-phase temperature, or first at the dew
+            // point) is then bracketed whatever the sign round-off gives there.
+            let lo = (t_bub - 1.0).max(SEARCH_MIN_TEMPERATURE_K);
+            if let Some(t) = calc.liquid_dew_temperature(p, liquid, (lo, hi), &mut work)? {
                 liquid_dews[k] = Some(t);
                 let q = flow * (calc.enthalpy(&work) - h_in);
                 if inside(q) {

@@ -50,6 +50,9 @@ A case file is JSON (TOML when the name ends in .toml) with these keys:
   vapour_model     \"ideal-gas\" (default) or \"second-virial\" (real-gas vapour enthalpy from the
                    Pitzer–Curl second virial coefficient; warns where it is stretched)
   points           curve points (curve only; --points overrides)
+  water_phase      \"one-liquid\" (default) or \"immiscible\": water forms its own liquid beside the
+                   organic one (or {\"model\": \"immiscible\", \"water_in_organic\": x,
+                   \"organic_in_water\": {name: x}} with solubilities as mole fractions)
   note             free text
 Unknown keys, and keys a command does not use, are errors.
 

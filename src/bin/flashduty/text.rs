@@ -162,23 +162,27 @@ fn phase_word(p: Phase) -> &'static str {
 
 /// The composition table of a state: z, x, y, K per component.
 pub fn composition(out: &mut String, names: Option<&[String]>, z: &[f64], s: &State, indent: usize) {
-    let x_head = if s.phase == Phase::Vapour && s.x.is_some() {
-        "x (incipient)"
-    } else {
-        "x liquid"
+    let x_head = match (s.phase == Phase::Vapour && s.x.is_some(), s.water.is_some()) {
+        (true, _) => "x (incipient)",
+        (false, true) => "x organic",
+        (false, false) => "x liquid",
     };
     let y_head = if s.phase == Phase::Liquid && s.y.is_some() {
         "y (incipient)"
     } else {
         "y vapour"
     };
-    let mut t = Table::new(&[
+    let aqueous = s.water.as_ref().map(|w| &w.aqueous);
+    let mut heads = vec![
         ("component", Align::Left),
         ("z feed", Align::Right),
         (x_head, Align::Right),
-        (y_head, Align::Right),
-        ("K", Align::Right),
-    ]);
+    ];
+    if aqueous.is_some() {
+        heads.push(("x aqueous", Align::Right));
+    }
+    heads.extend([(y_head, Align::Right), ("K", Align::Right)]);
+    let mut t = Table::new(&heads);
     for (i, zi) in z.iter().enumerate() {
         let name = names
             .and_then(|n| n.get(i))
@@ -189,13 +193,12 @@ pub fn composition(out: &mut String, names: Option<&[String]>, z: &[f64], s: &St
                 .and_then(|v| v.get(i))
                 .map_or("-".to_string(), |x| fixed(*x, 6))
         };
-        t.row(vec![
-            name,
-            fixed(*zi, 6),
-            cell(&s.x),
-            cell(&s.y),
-            s.k.get(i).map_or("-".to_string(), |k| num(*k, 6)),
-        ]);
+        let mut row = vec![name, fixed(*zi, 6), cell(&s.x)];
+        if let Some(a) = aqueous {
+            row.push(cell(a));
+        }
+        row.extend([cell(&s.y), s.k.get(i).map_or("-".to_string(), |k| num(*k, 6))]);
+        t.row(row);
     }
     out.push_str(&t.render(indent));
 }
@@ -223,6 +226,15 @@ fn flash_text(out: &mut String, f: &FlashOutcome) {
         fixed(s.vapour_fraction, 6),
         fixed(s.liquid_fraction, 6)
     );
+    if let Some(w) = &s.water {
+        let _ = writeln!(
+            out,
+            "  water phase: {}   organic liquid fraction {}   aqueous fraction {}",
+            w.phase_set,
+            fixed(w.organic_fraction, 6),
+            fixed(w.aqueous_fraction, 6)
+        );
+    }
     if let Some(flow) = f.feed.flow_mol_s {
         let _ = writeln!(
             out,
