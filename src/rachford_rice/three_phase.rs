@@ -185,9 +185,11 @@ pub struct ThreePhaseSplit {
 /// let s = three_phase_split(&[0.5, 0.5], &[inf, 0.3], &[0.4, inf]).unwrap();
 /// assert_eq!(s.phase_set, PhaseSet::OrganicAqueous);
 /// assert!((s.aqueous_fraction - 0.5).abs() < 1e-15);
-/// // Hotter: the sum exceeds the pressure, and some of each boils off.
-/// let s = three_phase_split(&[0.5, 0.5], &[inf, 0.7], &[0.6, inf]).unwrap();
+/// // Hotter: the K-values add up to more than 1; all the water and part of the organic
+/// // boil off, the vapour holding the organic at its K over the pure organic liquid.
+/// let s = three_phase_split(&[0.5, 0.5], &[inf, 0.4], &[0.9, inf]).unwrap();
 /// assert_eq!(s.phase_set, PhaseSet::VapourOrganic);
+/// assert!((s.vapour_fraction - 5.0 / 6.0).abs() < 1e-15);
 /// ```
 pub fn three_phase_split(
     z: &[f64],
