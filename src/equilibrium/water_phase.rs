@@ -38,7 +38,7 @@ use super::spec::{
     FlashError, FlashResult, FlashSpec, SEARCH_MAX_TEMPERATURE_K, SEARCH_MIN_TEMPERATURE_K, check_vapour_fraction,
 };
 use crate::properties::{Component, WaterMiscibility};
-use crate::rachford_rice::{Minimum, Phase, PhaseSet, Problem, ThreePhaseSplit};
+use crate::rachford_rice::{Minimum, Phase, PhaseSet, Problem};
 use crate::solve::{bracketed_newton, expand_bracket};
 use crate::warnings::Warning;
 use serde::Serialize;
@@ -84,6 +84,8 @@ pub struct WaterPhase {
     /// Components put in the organic liquid that the library says dissolve in water to a
     /// few per cent, or whose miscibility it does not record: warned about.
     doubtful: Vec<Warning>,
+    /// Their component indices.
+    doubtful_index: Vec<usize>,
 }
 
 impl WaterPhase {
@@ -108,7 +110,7 @@ impl WaterPhase {
             .ok_or(FlashError::NoWater {
                 why: "no component is water, so there is no water phase to form",
             })?;
-        let mut doubtful = Vec::new();
+        let (mut doubtful, mut doubtful_index) = (Vec::new(), Vec::new());
         for (i, c) in components.iter().enumerate() {
             if i == water {
                 continue;
@@ -120,10 +122,13 @@ impl WaterPhase {
                     });
                 }
                 Some(WaterMiscibility::Immiscible) => {}
-                Some(WaterMiscibility::PartiallyMiscible) | None => doubtful.push(Warning::PartlyMiscibleWithWater {
-                    component: c.name().to_string(),
-                    solubility_mass_percent: c.water_solubility_mass_percent(),
-                }),
+                Some(WaterMiscibility::PartiallyMiscible) | None => {
+                    doubtful_index.push(i);
+                    doubtful.push(Warning::PartlyMiscibleWithWater {
+                        component: c.name().to_string(),
+                        solubility_mass_percent: c.water_solubility_mass_percent(),
+                    });
+                }
             }
         }
         Ok(Self {
@@ -131,6 +136,7 @@ impl WaterPhase {
             organic_in_water: vec![0.0; components.len()],
             water_in_organic: 0.0,
             doubtful,
+            doubtful_index,
         })
     }
 
@@ -357,15 +363,14 @@ pub(crate) fn water_flash_result<M: KValueModel + ?Sized>(
     }
 }
 
-/// The water phase's own warnings: components of doubtful immiscibility, and ammonia-free
-/// notes to come. Added to every result with a water phase.
+/// The water phase's own warnings (components of doubtful immiscibility with feed in
+/// them), added to every result with a water phase.
 pub(crate) fn water_warnings(water: &WaterPhase, z: &[f64], out: &mut Vec<Warning>) {
-    for w in &water.doubtful {
-        if !out.contains(w) {
+    for (w, &zi) in water.doubtful.iter().zip(&water.doubtful_index) {
+        if z.get(zi).is_some_and(|&v| v > 0.0) && !out.contains(w) {
             out.push(w.clone());
         }
     }
-    let _ = z;
 }
 
 /// Checks what a water-phase flash needs of the model; `false` where the feed holds no
@@ -805,36 +810,4 @@ pub(crate) fn liquid_appearance_temperature<M: KValueModel + ?Sized>(
     }
     w.write(root.x, p, fixed, Some(k), out)?;
     Ok(Some(root.x))
-}
-
-impl ThreePhaseSplit {
-    /// The lumped liquid (organic and aqueous together) mole fractions, for reports that
-    /// show one liquid.
-    ///
-    /// ```
-    /// use flashduty::rachford_rice::three_phase_split;
-    /// let inf = f64::INFINITY;
-    /// let s = three_phase_split(&[0.5, 0.5], &[inf, 0.3], &[0.4, inf]).unwrap();
-    /// assert_eq!(s.lumped_liquid(), vec![0.5, 0.5]);
-    /// ```
-    pub fn lumped_liquid(&self) -> Vec<f64> {
-        let n = self
-            .organic
-            .as_ref()
-            .or(self.aqueous.as_ref())
-            .or(self.vapour.as_ref())
-            .map_or(0, Vec::len);
-        let total = self.organic_fraction + self.aqueous_fraction;
-        (0..n)
-            .map(|i| {
-                let o = self.organic.as_ref().map_or(0.0, |x| x[i]);
-                let a = self.aqueous.as_ref().map_or(0.0, |x| x[i]);
-                if total > 0.0 {
-                    (self.organic_fraction * o + self.aqueous_fraction * a) / total
-                } else {
-                    0.0
-                }
-            })
-            .collect()
-    }
 }

@@ -553,6 +553,38 @@ impl<'a> Problem<'a> {
     }
 }
 
+impl ThreePhaseSplit {
+    /// The lumped liquid (organic and aqueous together) mole fractions, for reports that
+    /// show one liquid.
+    ///
+    /// ```
+    /// use flashduty::rachford_rice::three_phase_split;
+    /// let inf = f64::INFINITY;
+    /// let s = three_phase_split(&[0.5, 0.5], &[inf, 0.3], &[0.4, inf]).unwrap();
+    /// assert_eq!(s.lumped_liquid(), vec![0.5, 0.5]);
+    /// ```
+    pub fn lumped_liquid(&self) -> Vec<f64> {
+        let n = self
+            .organic
+            .as_ref()
+            .or(self.aqueous.as_ref())
+            .or(self.vapour.as_ref())
+            .map_or(0, Vec::len);
+        let total = self.organic_fraction + self.aqueous_fraction;
+        (0..n)
+            .map(|i| {
+                let o = self.organic.as_ref().map_or(0.0, |x| x[i]);
+                let a = self.aqueous.as_ref().map_or(0.0, |x| x[i]);
+                if total > 0.0 {
+                    (self.organic_fraction * o + self.aqueous_fraction * a) / total
+                } else {
+                    0.0
+                }
+            })
+            .collect()
+    }
+}
+
 /// One component's row of E = (1, 1/K_organic, 1/K_aqueous), scaled by its largest entry.
 fn scaled_row(k_organic: f64, k_aqueous: f64) -> [f64; 3] {
     // Divide by the largest of 1, 1/K_O, 1/K_A, i.e. multiply by the smallest of 1, K_O, K_A.
