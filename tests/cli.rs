@@ -1672,3 +1672,43 @@ fn help_and_contract_list_the_schema_keys() {
         );
     }
 }
+
+/// `water_phase` through the tool: a wet toluene bubble point with two liquids, the
+/// example condenser curve with both dew points, and bad values refused with exit 2 and one
+/// line naming the field. Boiling point of the water–toluene heterogeneous azeotrope at
+/// 1 atm: 84.1 °C (CRC azeotrope table, from memory).
+#[test]
+fn water_phase_through_the_tool() {
+    let case = json!({"components": ["water", "toluene"], "z": [0.3, 0.7], "P": "1 atm", "water_phase": "immiscible"});
+    let v = json_stdin(&["bubble"], &case);
+    assert!((f(&v, "T_K") - 273.15 - 84.1).abs() < 1.0, "{v}");
+    assert_eq!(v["phase_set"], "organic+aqueous");
+    let v = json_args(&["curve", repo("examples/water_toluene_condenser.json").to_str().unwrap()]);
+    assert!(v["water_dew_T_K"].as_f64().unwrap() > v["organic_dew_T_K"].as_f64().unwrap());
+    let text = bin()
+        .args(["curve", repo("examples/water_toluene_condenser.json").to_str().unwrap()])
+        .output()
+        .unwrap();
+    let text = String::from_utf8(text.stdout).unwrap();
+    assert!(text.contains("water-dew") && text.contains("organic-dew"), "{text}");
+    fails(
+        "bubble",
+        r#"{"components": ["water", "toluene"], "z": [0.3, 0.7], "P": 1e5, "water_phase": "two-liquids"}"#,
+        &["water_phase", "'two-liquids'", "immiscible"],
+    );
+    fails(
+        "bubble",
+        r#"{"components": ["benzene", "toluene"], "z": [0.3, 0.7], "P": 1e5, "water_phase": "immiscible"}"#,
+        &["water_phase", "no water"],
+    );
+    fails(
+        "flash",
+        r#"{"components": ["water", "methanol"], "z": [0.3, 0.7], "T": 330, "P": 1e5, "water_phase": "immiscible"}"#,
+        &["water_phase", "'methanol'", "miscible"],
+    );
+    fails(
+        "bubble",
+        r#"{"components": ["water", "toluene"], "z": [0.3, 0.7], "P": 1e5, "water_phase": {"model": "immiscible", "water_in_organic": 2}}"#,
+        &["water_phase.water_in_organic", "2"],
+    );
+}

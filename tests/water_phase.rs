@@ -656,3 +656,27 @@ fn case_key_errors_name_the_field() {
     );
     assert!(e.starts_with("water_phase.model: missing"), "{e}");
 }
+
+/// The adiabatic flash of a wet stream (zero duty, a pressure let-down) keeps its enthalpy,
+/// through the full functions and through `DutyCalculator`, which agree with each other.
+#[test]
+fn adiabatic_let_down_of_a_wet_stream() {
+    use flashduty::energy::DutyCalculator;
+    // Invented: hot wet naphtha-like feed let down from 5 bar to 1 atm.
+    let s = wet_stream(&["water", "n-hexane", "n-heptane", "toluene"], &[0.3, 0.3, 0.2, 0.2]);
+    let inlet = tp(420.0, Pressure::new("P", 5e5).unwrap());
+    let zero = Power::new("duty", 0.0).unwrap();
+    let r = outlet_for_duty(&s, inlet, zero, atm(), DutyOptions::default()).unwrap();
+    assert!((r.outlet_enthalpy_j_per_mol - r.inlet_enthalpy_j_per_mol).abs() < 1e-6);
+    assert!(r.outlet.temperature_k < 420.0);
+    assert!(r.outlet.water_phase.is_some());
+    let mut calc = DutyCalculator::new(&s, DutyOptions::default()).unwrap();
+    let fast = calc.outlet_for_duty(inlet, zero, atm()).unwrap();
+    assert!((fast.outlet.temperature_k - r.outlet.temperature_k).abs() < 1e-9);
+    assert!((fast.outlet.vapour_fraction - r.outlet.vapour_fraction).abs() < 1e-12);
+    // And the calculator's duty between T–P states is the full function's.
+    let outlet = tp(330.0, atm());
+    let d = calc.duty(inlet, outlet).unwrap();
+    let full = heater_duty(&s, inlet, outlet, DutyOptions::default()).unwrap();
+    assert_eq!(d.duty_w, full.duty_w);
+}
