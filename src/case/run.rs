@@ -150,12 +150,23 @@ pub fn library(files: &[std::path::PathBuf]) -> CaseResult<Library> {
     Ok(lib)
 }
 
-fn components(lib: &Library, names: &[String]) -> CaseResult<Vec<Arc<Component>>> {
+/// The components named (library names, synonyms or CAS numbers), each error naming its
+/// place (`components[1]: unknown component ...`) with the library's kind; a component named
+/// twice is refused.
+///
+/// ```
+/// use flashduty::case::components;
+/// use flashduty::library::Library;
+/// let e = components(Library::builtin(), &["benzene".into(), "unobtainium".into()]).unwrap_err();
+/// assert_eq!((e.kind(), e.field()), ("unknown-component", Some("components[1]")));
+/// ```
+pub fn components(lib: &Library, names: &[String]) -> CaseResult<Vec<Arc<Component>>> {
     let mut out: Vec<Arc<Component>> = Vec::with_capacity(names.len());
     for (i, n) in names.iter().enumerate() {
+        // The library's kind (`unknown-component`) is kept; the message is unchanged.
         let c = lib
             .get(n)
-            .map_err(|e| CaseError::new(format!("components[{i}]: {e}")))?;
+            .map_err(|e| CaseError::from(e.clone()).context(format!("components[{i}]")))?;
         if let Some(j) = out.iter().position(|o| o.name() == c.name()) {
             bail!("components[{i}]: '{n}' is {} again (already components[{j}])", c.name());
         }

@@ -57,7 +57,7 @@ mod water_phase;
 pub use flash::{flash, tp_flash};
 pub use kvalue::{GivenK, KValueModel, KValues, Raoult};
 pub use spec::{FlashError, FlashResult, FlashSpec, SEARCH_MAX_TEMPERATURE_K, SEARCH_MIN_TEMPERATURE_K, Sensitivity};
-pub use tp_flasher::TpFlasher;
+pub use tp_flasher::{TpFlasher, tp_flash_into};
 pub use water_phase::{WATER_CAS, WaterPhase, WaterSplit, flash_with_water};
 
 pub(crate) use flash::{SolvedFlash, flash_into, flash_result, saturation_temperature};

@@ -77,21 +77,15 @@ impl<'a, M: KValueModel + ?Sized> TpFlasher<'a, M> {
         temperature: Temperature,
         pressure: Pressure,
     ) -> Result<rachford_rice::SplitSummary, FlashError> {
-        if z.len() != self.x.len() {
-            return Err(FlashError::ComponentCount {
-                components: self.x.len(),
-                z: z.len(),
-            });
-        }
-        self.model
-            .k_values(temperature.kelvin(), pressure.pascal(), &[], &[], &mut self.kv);
-        Ok(rachford_rice::solve_into(
+        tp_flash_into(
+            self.model,
             z,
-            &self.kv.k,
-            Options::default(),
+            temperature,
+            pressure,
+            &mut self.kv,
             &mut self.x,
             &mut self.y,
-        )?)
+        )
     }
 
     /// Liquid mole fractions of the last flash.
@@ -108,4 +102,48 @@ impl<'a, M: KValueModel + ?Sized> TpFlasher<'a, M> {
     pub fn k_values(&self) -> &[f64] {
         &self.kv.k
     }
+}
+
+/// The flash of [`TpFlasher::flash`] into buffers the caller owns (K-values, liquid and
+/// vapour mole fractions, each sized for the model), for callers that keep the model and
+/// the buffers in one place of their own (the C interface's calculator handle, say).
+///
+/// # Errors
+/// [`FlashError::ComponentCount`] when z or a buffer does not match the model, and
+/// [`FlashError::Feed`] for a refused feed.
+///
+/// ```
+/// use flashduty::equilibrium::{tp_flash_into, KValues, Raoult};
+/// use flashduty::units::{Pressure, Temperature};
+/// let model = Raoult::from_names(&["n-hexane", "n-heptane"]).unwrap();
+/// let (mut kv, mut x, mut y) = (KValues::new(2), [0.0; 2], [0.0; 2]);
+/// let t = Temperature::parse("T", "85 degC").unwrap();
+/// let p = Pressure::parse("P", "1 atm").unwrap();
+/// let s = tp_flash_into(&model, &[0.5, 0.5], t, p, &mut kv, &mut x, &mut y).unwrap();
+/// assert!(s.vapour_fraction > 0.0 && x[0] < y[0]);
+/// ```
+pub fn tp_flash_into<M: KValueModel + ?Sized>(
+    model: &M,
+    z: &[f64],
+    temperature: Temperature,
+    pressure: Pressure,
+    kv: &mut KValues,
+    x: &mut [f64],
+    y: &mut [f64],
+) -> Result<rachford_rice::SplitSummary, FlashError> {
+    let n = model.component_count();
+    for len in [z.len(), kv.k.len(), x.len(), y.len()] {
+        if len != n {
+            return Err(FlashError::ComponentCount { components: n, z: len });
+        }
+    }
+    if model.is_composition_dependent() {
+        return Err(FlashError::NoSolution {
+            what: "T-P flash",
+            detail: "a composition-dependent K-value model needs flash(), which iterates on the compositions"
+                .to_string(),
+        });
+    }
+    model.k_values(temperature.kelvin(), pressure.pascal(), &[], &[], kv);
+    Ok(rachford_rice::solve_into(z, &kv.k, Options::default(), x, y)?)
 }
