@@ -1,0 +1,210 @@
+"""The Python package: cases against the command-line tool, batch calls against the
+per-case calls and against scipy's brentq on the Rachford-Rice equation, errors with their
+kind and field, and the hostile inputs the tool's tests use."""
+
+import json
+import math
+import subprocess
+import threading
+
+import numpy as np
+import pytest
+from scipy.optimize import brentq
+
+import flashduty
+
+# (file, command, components file): every case example the tool runs.
+EXAMPLES = [
+    ("flash_tp.json", "flash", None),
+    ("flash_tp.toml", "flash", None),
+    ("flash_given_k.json", "flash", None),
+    ("flash_p_vapour_fraction.json", "flash", None),
+    ("flash_t_vapour_fraction.json", "flash", None),
+    ("bubble.json", "bubble", None),
+    ("bubble_t.json", "bubble", None),
+    ("dew.json", "dew", None),
+    ("duty.json", "duty", None),
+    ("duty_given.json", "duty", None),
+    ("curve.json", "curve", None),
+    ("water_toluene_condenser.json", "curve", None),
+    ("wet_toluene_bubble.json", "bubble", None),
+    ("user_component_case.json", "bubble", "user_component.json"),
+]
+
+
+def load_case(path):
+    text = path.read_text()
+    if path.suffix == ".toml":
+        import tomllib
+
+        return tomllib.loads(text)
+    return json.loads(text)
+
+
+@pytest.mark.parametrize("name,command,components", EXAMPLES)
+def test_every_example_matches_the_command_line_tool(root, cli, name, command, components):
+    path = root / "examples" / name
+    args = [str(cli), command, "--json", str(path)]
+    library = None
+    if components:
+        args += ["--components", str(root / "examples" / components)]
+        library = flashduty.Library(files=[str(root / "examples" / components)])
+    expected = json.loads(subprocess.run(args, check=True, capture_output=True, text=True).stdout)
+    got = getattr(flashduty, command)(load_case(path), library=library).to_dict()
+    assert got == expected
+
+
+def test_results_read_as_attributes_and_items():
+    r = flashduty.duty(
+        components=["benzene", "toluene"],
+        z=[0.5, 0.5],
+        flow="36 kmol/h",
+        inlet={"T": "25 degC", "P": "1 atm"},
+        outlet={"T": "120 degC", "P": "1 atm"},
+    )
+    assert r.duty_W > 0 and r["duty_W"] == r.duty_W
+    assert r.outlet.phase == "vapour" and r.outlet["T_K"] == pytest.approx(393.15)
+    assert "caution" in r and "licensed engineer" in r.caution
+    found = flashduty.outlet_for_duty(
+        components=["benzene", "toluene"],
+        z=[0.5, 0.5],
+        flow="36 kmol/h",
+        inlet={"T": "25 degC", "P": "1 atm"},
+        outlet={"P": "1 atm"},
+        duty=r.duty_W,
+    )
+    assert found.outlet.T_K == pytest.approx(393.15, abs=1e-6)
+
+
+def test_water_phase_and_library_files(root):
+    # CRC azeotrope table (from memory): water-toluene boils at 84.1 degC at 1 atm.
+    r = flashduty.bubble(components=["water", "toluene"], z=[0.3, 0.7], P="1 atm", water_phase="immiscible")
+    assert abs(r.T_K - 273.15 - 84.1) < 1.0
+    assert r.phase_set == "organic+aqueous"
+    lib = flashduty.Library(files=[str(root / "examples" / "user_component.json")])
+    assert len(lib) == len(flashduty.Library()) + 1
+    assert "exampleane" in lib.names()
+
+
+# The hostile inputs of the command-line tool's tests: each refused with its kind and field.
+HOSTILE = [
+    ({"components": ["unobtainium"], "z": [1], "T": 300, "P": 1e5}, "unknown-component", "components[0]"),
+    ({"components": ["water"], "z": [1], "T": "hot", "P": 1e5}, "not-a-number", "T"),
+    ({"components": ["water"], "z": [1], "T": "300 furlongs", "P": 1e5}, "unknown-unit", "T"),
+    ({"components": ["water"], "z": [1], "T": -5, "P": 1e5}, None, "T"),
+    ({"components": ["water"], "z": [1], "T": 300, "P": "1 barg"}, "unknown-unit", "P"),
+    ({"components": ["water", "ethanol"], "z": [0.5, -0.5], "T": 300, "P": 1e5}, None, "z[1]"),
+    ({"components": ["water", "ethanol"], "z": [0.5, 0.6], "T": 300, "P": 1e5}, "mole-fraction-sum", "z"),
+    ({"components": ["water"], "z": [1], "T": 300, "P": 1e5, "colour": "blue"}, "unknown-key", "colour"),
+    ({"components": ["water"], "z": [1], "T": 300}, None, "flash"),
+    ({"components": ["x" * 100_000], "z": [1], "T": 300, "P": 1e5}, "unknown-component", "components[0]"),
+    ({"z": [0.5, 0.5], "K": [2, -1]}, None, "K[1]"),
+    ({"components": ["water", "toluene"], "z": [0.5, 0.5], "P": 1e5, "water_phase": "maybe"}, None, "water_phase"),
+]
+
+
+@pytest.mark.parametrize("case,kind,field", HOSTILE)
+def test_hostile_inputs_raise_with_kind_and_field(case, kind, field):
+    command = "bubble" if "water_phase" in case else "flash"
+    with pytest.raises(flashduty.FlashdutyError) as info:
+        getattr(flashduty, command)(case)
+    e = info.value
+    assert e.field == field, str(e)
+    if kind:
+        assert e.kind == kind, str(e)
+    assert "\n" not in str(e) and len(str(e)) < 100_200
+
+
+def test_values_python_cannot_write_as_json_are_refused():
+    with pytest.raises(flashduty.FlashdutyError) as info:
+        flashduty.flash(components=["water"], z=[math.nan], T=300, P=1e5)
+    assert info.value.kind == "invalid-case"
+    with pytest.raises(flashduty.FlashdutyError):
+        flashduty.flash(components=["water"], z=[1], T=object(), P=1e5)
+
+
+def test_batch_errors_name_the_row():
+    z = np.array([[0.5, 0.5], [0.5, 0.5]])
+    with pytest.raises(flashduty.FlashdutyError) as info:
+        flashduty.flash_batch(["benzene", "toluene"], z, [360.0, -1.0], 1e5)
+    assert info.value.field == "row 1: T"
+    with pytest.raises(flashduty.FlashdutyError) as info:
+        flashduty.rachford_rice_batch(np.array([[0.5, 0.6]]), np.array([[2.0, 0.5]]))
+    assert info.value.kind == "mole-fraction-sum"
+    with pytest.raises(flashduty.FlashdutyError) as info:
+        flashduty.rachford_rice_batch(np.array([[0.5, 0.5]]), np.array([[2.0, 0.5, 1.0]]))
+    assert info.value.kind == "length-mismatch"
+    with pytest.raises(flashduty.FlashdutyError):
+        flashduty.flash_batch(["benzene", "unobtainium"], z, 360.0, 1e5)
+    with pytest.raises(flashduty.FlashdutyError):
+        flashduty.duty_batch(["water", "ethanol"], [0.5, 0.5], 1.0, 300, 1e5, 350, 1e5, water_phase="immiscible")
+
+
+def rr_brentq(z, k):
+    """The Rachford-Rice root by scipy's brentq, a reference outside the project."""
+    f = lambda b: np.sum(z * (k - 1) / (1 + b * (k - 1)))  # noqa: E731
+    if f(0.0) <= 0:
+        return 0.0
+    if f(1.0) >= 0:
+        return 1.0
+    lo, hi = 1 / (1 - k.max()), 1 / (1 - k.min())
+    return brentq(f, max(0.0, lo + 1e-12), min(1.0, hi - 1e-12), xtol=1e-15, rtol=4 * np.finfo(float).eps)
+
+
+def random_given_k(rng, rows, n):
+    z = rng.uniform(0.05, 1.0, size=(rows, n))
+    z /= z.sum(axis=1, keepdims=True)
+    k = np.exp(rng.uniform(np.log(0.01), np.log(100.0), size=(rows, n)))
+    return z, k
+
+
+def test_rachford_rice_batch_against_brentq():
+    rng = np.random.default_rng(20261203)
+    z, k = random_given_k(rng, 500, 10)
+    out = flashduty.rachford_rice_batch(z, k)
+    for r in range(500):
+        assert out["vapour_fraction"][r] == pytest.approx(rr_brentq(z[r], k[r]), abs=1e-12)
+    x, y = out["x"], out["y"]
+    back = out["liquid_fraction"][:, None] * x + out["vapour_fraction"][:, None] * y
+    assert np.allclose(back, z, rtol=0, atol=1e-14)
+
+
+def test_flash_batch_matches_one_flash_at_a_time_and_threads():
+    rng = np.random.default_rng(7)
+    names = ["n-pentane", "n-hexane", "n-heptane", "toluene"]
+    z = rng.uniform(0.05, 1, size=(200, 4))
+    z /= z.sum(axis=1, keepdims=True)
+    t = rng.uniform(300, 400, size=200)
+    out = flashduty.flash_batch(names, z, t, 101325.0)
+    for r in range(0, 200, 20):
+        one = flashduty.flash(components=names, z=list(z[r]), T=float(t[r]), P=101325.0)
+        assert out["vapour_fraction"][r] == pytest.approx(one.vapour_fraction, abs=1e-14)
+        assert flashduty.PHASES[out["phase"][r]] == one.phase
+    # Calls from several threads at once give the same answers (the GIL is released).
+    results = [None] * 4
+
+    def work(i):
+        results[i] = flashduty.flash_batch(names, z, t, 101325.0)["vapour_fraction"]
+
+    threads = [threading.Thread(target=work, args=(i,)) for i in range(4)]
+    for th in threads:
+        th.start()
+    for th in threads:
+        th.join()
+    for res in results:
+        assert np.array_equal(res, out["vapour_fraction"])
+
+
+def test_duty_batch_matches_the_duty_case():
+    t_out = np.linspace(300.0, 420.0, 13)
+    q = flashduty.duty_batch(["benzene", "toluene"], [0.5, 0.5], 2.0, 298.15, 101325.0, t_out, 101325.0)
+    for i in (0, 6, 12):
+        one = flashduty.duty(
+            components=["benzene", "toluene"],
+            z=[0.5, 0.5],
+            flow=2.0,
+            inlet={"T": 298.15, "P": 101325.0},
+            outlet={"T": float(t_out[i]), "P": 101325.0},
+        )
+        assert q[i] == one.duty_W
+    assert np.all(np.diff(q) > 0)
