@@ -208,3 +208,35 @@ def test_duty_batch_matches_the_duty_case():
         )
         assert q[i] == one.duty_W
     assert np.all(np.diff(q) > 0)
+
+
+def test_case_text_almost_right_never_crashes():
+    """The command-line tool's fuzz-like inputs, text that is often almost a case: random
+    edits of valid cases. Each either runs or raises FlashdutyError with a one-line message."""
+    import random
+
+    from flashduty import _flashduty
+
+    rng = random.Random(20261203)
+    seeds = [
+        '{"components": ["benzene", "toluene"], "z": [0.5, 0.5], "P": "1 atm"}',
+        '{"components": ["water", "toluene"], "z": [0.3, 0.7], "T": 350, "P": 1e5, "water_phase": "immiscible"}',
+        '{"components": ["water"], "z": [1], "inlet": {"T": 300, "P": 1e5}, "outlet": {"T": 400, "P": 1e5}}',
+    ]
+    alphabet = '{}[]":,. -eE0123456789abcdefghijklmnopqrstuvwxyzTPKz\\\x00\u00e9'
+    for _ in range(600):
+        text = list(rng.choice(seeds))
+        for _ in range(rng.randint(1, 6)):
+            i = rng.randrange(len(text) + 1)
+            op = rng.random()
+            if op < 0.4 and text:
+                del text[min(i, len(text) - 1)]
+            elif op < 0.8:
+                text.insert(i, rng.choice(alphabet))
+            elif text:
+                text[min(i, len(text) - 1)] = rng.choice(alphabet)
+        command = rng.choice(["flash", "bubble", "dew", "duty", "curve"])
+        try:
+            flashduty._native(_flashduty.run_case, command, "".join(text))
+        except flashduty.FlashdutyError as e:
+            assert "\n" not in str(e) and e.kind
