@@ -242,6 +242,15 @@ impl fmt::Display for Warning {
     }
 }
 
+/// Removes the warnings that do not apply to a pure-component feed (one component with a
+/// mole fraction above zero): Raoult's law is then exact at saturation, so the
+/// high-pressure doubt about it does not arise.
+pub(crate) fn drop_for_pure_feed(z: &[f64], list: &mut Vec<Warning>) {
+    if z.iter().filter(|&&v| v > 0.0).count() == 1 {
+        list.retain(|w| !matches!(w, Warning::HighPressure { .. }));
+    }
+}
+
 /// Adds `w` to `list` unless an equal warning for the same component and correlation is
 /// already there (the first occurrence is kept).
 pub(crate) fn push_unique(list: &mut Vec<Warning>, w: Warning) {

@@ -389,6 +389,7 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
     /// Adds the K-value model's warnings at the state (those of its flash result).
     pub fn flash_warnings(&self, s: &SolvedFlash, out: &mut Vec<Warning>) {
         self.k_model.warnings(s.state.t, s.state.p, out);
+        crate::warnings::drop_for_pure_feed(&self.zn, out);
         match self.water() {
             Some(w) => water_warnings(w, &self.zn, out),
             None if s.state.has_liquid => self.k_model.feed_warnings(&self.zn, out),
@@ -826,6 +827,15 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
             (lo, hi),
             out,
         )?)
+    }
+
+    /// Whether dQ/dT at a duty-specified outlet is defined: not where the outlet is
+    /// two-phase between bubble and dew points that coincide (a pure component, an
+    /// azeotrope), where the duty rises at constant temperature.
+    pub fn outlet_has_slope(outlet: &SolvedFlash, t_bub: f64, dew: Option<Option<f64>>) -> bool {
+        let at_constant_t = outlet.state.phase == Phase::TwoPhase
+            && matches!(dew, Some(Some(t_dew)) if t_dew - t_bub <= 1e-8 * t_dew);
+        !at_constant_t
     }
 
     /// The duty-specified flash: `inlet` flashed into `inlet_out`, and the state at

@@ -188,7 +188,8 @@ fn outlet_of<K: KValueModel, H: PhaseEnthalpyModel>(
     let (mut inlet_s, mut outlet_s) = (SolvedFlash::new(n), SolvedFlash::new(n));
     let (t_bub, dew) = calc.outlet_for_duty(inlet, duty, outlet_pressure, &mut inlet_s, &mut outlet_s)?;
     let t_out = outlet_s.state.t;
-    let mut result = calc.result(inlet_s, outlet_s, true);
+    let slope = Calc::<K, H>::outlet_has_slope(&outlet_s, t_bub, dew);
+    let mut result = calc.result(inlet_s, outlet_s, slope);
     // Report the duty asked for; the computed one agrees to the solver tolerance.
     result.duty_w = duty.watts();
     if calc

@@ -152,8 +152,10 @@ pub struct DutySummary {
     /// Outlet molar enthalpy relative to the reference state, J/mol of stream.
     pub outlet_enthalpy_j_per_mol: f64,
     /// dQ/dT at the outlet at the outlet pressure, W/K (analytic, from the K-values the
-    /// outlet flash already has). `None` unless the outlet was given by T and P (always
-    /// given by the duty-specified flash).
+    /// outlet flash already has). `None` unless the outlet was given by T and P or found
+    /// by the duty-specified flash, and `None` where the duty rises at constant
+    /// temperature there (a two-phase outlet of a pure component or an azeotrope, or at the
+    /// three-phase temperature of water and one organic).
     pub dduty_dt_out_w_per_k: Option<f64>,
 }
 
@@ -322,10 +324,12 @@ impl<K: KValueModel, H: PhaseEnthalpyModel> DutyCalculator<K, H> {
         outlet_pressure: Pressure,
     ) -> Result<DutySummary, EnergyError> {
         self.valid = false;
-        self.calc
+        let (t_bub, dew) = self
+            .calc
             .outlet_for_duty(inlet, duty, outlet_pressure, &mut self.inlet, &mut self.outlet)?;
         self.valid = true;
-        let mut summary = self.calc.summary(&self.inlet, &self.outlet, true);
+        let slope = Calc::<K, H>::outlet_has_slope(&self.outlet, t_bub, dew);
+        let mut summary = self.calc.summary(&self.inlet, &self.outlet, slope);
         // Report the duty asked for, as the full function does.
         summary.duty_w = duty.watts();
         Ok(summary)

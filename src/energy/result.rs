@@ -144,7 +144,10 @@ pub struct DutyResult {
     /// The enthalpy table: every component in every phase present, inlet then outlet.
     pub table: Vec<EnthalpyRow>,
     /// dQ/dT at the outlet, at the outlet pressure, W/K (analytic; the outlet-temperature
-    /// sensitivity of the duty). `None` unless the outlet was given by T and P.
+    /// sensitivity of the duty). `None` unless the outlet was given by T and P (or found
+    /// by the duty-specified flash), and `None` where the duty rises at constant
+    /// temperature there (a two-phase pure component or azeotrope, a three-phase
+    /// temperature).
     pub dduty_dt_out_w_per_k: Option<f64>,
     /// The same duty along each vaporisation path.
     pub path_spread: PathSpread,

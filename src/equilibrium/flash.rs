@@ -262,6 +262,7 @@ pub(crate) fn flash_result<M: KValueModel + ?Sized>(model: &M, z: &[f64], solved
     let state = solved.state;
     let mut warnings = Vec::new();
     model.warnings(state.t, state.p, &mut warnings);
+    crate::warnings::drop_for_pure_feed(z, &mut warnings);
     if state.has_liquid {
         model.feed_warnings(z, &mut warnings);
     }

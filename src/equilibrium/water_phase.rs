@@ -332,6 +332,7 @@ pub(crate) fn water_flash_result<M: KValueModel + ?Sized>(
     let state = solved.state;
     let mut warnings = Vec::new();
     model.warnings(state.t, state.p, &mut warnings);
+    crate::warnings::drop_for_pure_feed(z, &mut warnings);
     water_warnings(water, z, &mut warnings);
     let w = solved.water;
     let sensitivity = match (w.dv_dt_known, w.dbeta_dp, state.phase == Phase::TwoPhase) {
