@@ -569,7 +569,7 @@ fn human_reports_have_tables_units_warnings_and_the_caution() {
     // A warning reaches the human report.
     let out = bin()
         .args(["flash", "-"])
-        .write_stdin(r#"{"components": ["benzene"], "z": [1], "T": "150 degC", "P": "8 bar"}"#)
+        .write_stdin(r#"{"components": ["benzene", "toluene"], "z": [0.5, 0.5], "T": "150 degC", "P": "8 bar"}"#)
         .output()
         .unwrap();
     let text = String::from_utf8(out.stdout).unwrap();
@@ -580,7 +580,7 @@ fn human_reports_have_tables_units_warnings_and_the_caution() {
 fn warnings_are_tagged_in_json() {
     let v = json_stdin(
         &["flash"],
-        &json!({"components": ["benzene"], "z": [1], "T": "150 degC", "P": "8 bar"}),
+        &json!({"components": ["benzene", "toluene"], "z": [0.5, 0.5], "T": "150 degC", "P": "8 bar"}),
     );
     let kinds: Vec<&str> = v["warnings"]
         .as_array()
@@ -910,7 +910,8 @@ fn batch_writes_every_row_in_order_with_errors() {
         .arg(repo("examples/batch_flash.csv"))
         .output()
         .unwrap();
-    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    // Some rows fail on purpose: every row is written, and the exit code is 1.
+    assert_eq!(out.status.code(), Some(1), "{}", String::from_utf8_lossy(&out.stderr));
     let text = String::from_utf8(out.stdout).unwrap();
     let mut reader = csv::Reader::from_reader(text.as_bytes());
     let headers = reader.headers().unwrap().clone();
@@ -957,7 +958,7 @@ fn batch_json_lines_and_output_file() {
         .arg("--output")
         .arg(&path)
         .assert()
-        .success()
+        .code(1)
         .stdout(predicate::str::is_empty());
     let text = std::fs::read_to_string(&path).unwrap();
     let lines: Vec<Value> = text.lines().map(|l| serde_json::from_str(l).unwrap()).collect();
@@ -980,7 +981,7 @@ c,water,1,1,20,1 atm,,,
     let path = dir.path().join("duty.csv");
     std::fs::write(&path, sheet).unwrap();
     let out = bin().args(["duty", "--batch"]).arg(&path).output().unwrap();
-    assert!(out.status.success());
+    assert_eq!(out.status.code(), Some(1), "row c fails");
     let text = String::from_utf8(out.stdout).unwrap();
     let mut reader = csv::Reader::from_reader(text.as_bytes());
     let headers = reader.headers().unwrap().clone();
@@ -1616,7 +1617,7 @@ fn vapour_model_column_in_a_batch() {
     )
     .unwrap();
     let out = bin().args(["duty", "--batch"]).arg(&path).output().unwrap();
-    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    assert_eq!(out.status.code(), Some(1), "{}", String::from_utf8_lossy(&out.stderr));
     let text = String::from_utf8(out.stdout).unwrap();
     let mut reader = csv::Reader::from_reader(text.as_bytes());
     let headers = reader.headers().unwrap().clone();
@@ -1711,4 +1712,44 @@ fn water_phase_through_the_tool() {
         r#"{"components": ["water", "toluene"], "z": [0.3, 0.7], "P": 1e5, "water_phase": {"model": "immiscible", "water_in_organic": 2}}"#,
         &["water_phase.water_in_organic", "2"],
     );
+}
+
+/// `--batch` writes every row and exits 1 when any row failed; a `check` sheet with no rows
+/// is an error; with `--json` an error is one JSON object on stderr with kind, field and
+/// message.
+#[test]
+fn batch_failures_exit_1_and_json_errors() {
+    let dir = tempfile::tempdir().unwrap();
+    let path = dir.path().join("rows.csv");
+    std::fs::write(
+        &path,
+        "command,components,z,T,P\nflash,water,1,300,1e5\nflash,unobtainium,1,300,1e5\n",
+    )
+    .unwrap();
+    let out = bin().args(["flash", "--batch"]).arg(&path).output().unwrap();
+    assert_eq!(out.status.code(), Some(1));
+    let text = String::from_utf8(out.stdout).unwrap();
+    assert_eq!(text.lines().count(), 3, "{text}");
+    assert!(text.contains("unknown component 'unobtainium'"));
+    std::fs::write(&path, "command,components,z,T,P\nflash,water,1,300,1e5\n").unwrap();
+    let out = bin().args(["flash", "--batch"]).arg(&path).output().unwrap();
+    assert_eq!(out.status.code(), Some(0));
+    std::fs::write(&path, "command,components,z,P,expect.T_K\n").unwrap();
+    let out = bin().arg("check").arg(&path).output().unwrap();
+    assert_error_output(&out, &["no rows"]);
+    let out = bin()
+        .args(["flash", "--json", "-"])
+        .write_stdin(r#"{"components": ["water"], "z": [1], "T": "hot", "P": 1e5}"#)
+        .output()
+        .unwrap();
+    assert_eq!(out.status.code(), Some(2));
+    let stderr = String::from_utf8(out.stderr).unwrap();
+    assert_eq!(stderr.trim_end().lines().count(), 1, "{stderr}");
+    let v: Value = serde_json::from_str(stderr.trim()).unwrap();
+    assert_eq!(v["error"]["kind"], "not-a-number");
+    assert_eq!(v["error"]["field"], "T");
+    assert!(v["error"]["message"].as_str().unwrap().contains("'hot'"));
+    let out = bin().args(["flash", "--json", "--bogus"]).output().unwrap();
+    let v: Value = serde_json::from_str(String::from_utf8(out.stderr).unwrap().trim()).unwrap();
+    assert_eq!(v["error"]["kind"], "invalid-arguments");
 }

@@ -20,22 +20,47 @@ fn tp(t: f64, p: f64) -> StreamState {
 fn no_slope_where_the_duty_rises_at_constant_temperature() {
     let s = Stream::from_names(&["water"], &[1.0], MolarFlow::new("flow", 1.0).unwrap()).unwrap();
     let p = Pressure::new("P", 101_325.0).unwrap();
-    let r = outlet_for_duty(&s, tp(300.0, 101_325.0), Power::new("duty", 25_000.0).unwrap(), p, DutyOptions::default())
-        .unwrap();
+    let r = outlet_for_duty(
+        &s,
+        tp(300.0, 101_325.0),
+        Power::new("duty", 25_000.0).unwrap(),
+        p,
+        DutyOptions::default(),
+    )
+    .unwrap();
     assert!(r.outlet.vapour_fraction > 0.1 && r.outlet.vapour_fraction < 0.9);
     assert!((r.outlet.temperature_k - 373.12).abs() < 0.3);
     assert_eq!(r.dduty_dt_out_w_per_k, None);
     let mut calc = DutyCalculator::new(&s, DutyOptions::default()).unwrap();
-    let fast = calc.outlet_for_duty(tp(300.0, 101_325.0), Power::new("duty", 25_000.0).unwrap(), p).unwrap();
+    let fast = calc
+        .outlet_for_duty(tp(300.0, 101_325.0), Power::new("duty", 25_000.0).unwrap(), p)
+        .unwrap();
     assert_eq!(fast.dduty_dt_out_w_per_k, None);
     // A mixture's two-phase outlet keeps its slope, and so does a single-phase one.
-    let m = Stream::from_names(&["benzene", "toluene"], &[0.5, 0.5], MolarFlow::new("flow", 1.0).unwrap()).unwrap();
-    let r = outlet_for_duty(&m, tp(300.0, 101_325.0), Power::new("duty", 30_000.0).unwrap(), p, DutyOptions::default())
-        .unwrap();
+    let m = Stream::from_names(
+        &["benzene", "toluene"],
+        &[0.5, 0.5],
+        MolarFlow::new("flow", 1.0).unwrap(),
+    )
+    .unwrap();
+    let r = outlet_for_duty(
+        &m,
+        tp(300.0, 101_325.0),
+        Power::new("duty", 30_000.0).unwrap(),
+        p,
+        DutyOptions::default(),
+    )
+    .unwrap();
     assert!(r.outlet.vapour_fraction > 0.0 && r.outlet.vapour_fraction < 1.0);
     assert!(r.dduty_dt_out_w_per_k.is_some_and(|d| d > 0.0 && d < 1e6));
-    let r = outlet_for_duty(&s, tp(300.0, 101_325.0), Power::new("duty", 2_000.0).unwrap(), p, DutyOptions::default())
-        .unwrap();
+    let r = outlet_for_duty(
+        &s,
+        tp(300.0, 101_325.0),
+        Power::new("duty", 2_000.0).unwrap(),
+        p,
+        DutyOptions::default(),
+    )
+    .unwrap();
     assert!(r.dduty_dt_out_w_per_k.is_some());
 }
 
@@ -46,7 +71,11 @@ fn no_raoult_doubt_for_a_pure_component() {
     let p = Pressure::new("P", 10e5).unwrap();
     let water = Raoult::from_names(&["water"]).unwrap();
     let r = flash(&water, &[1.0], FlashSpec::BubbleTemperature { pressure: p }).unwrap();
-    assert!(!r.warnings.iter().any(|w| matches!(w, Warning::HighPressure { .. })), "{:?}", r.warnings);
+    assert!(
+        !r.warnings.iter().any(|w| matches!(w, Warning::HighPressure { .. })),
+        "{:?}",
+        r.warnings
+    );
     let mix = Raoult::from_names(&["benzene", "toluene"]).unwrap();
     let r = flash(&mix, &[0.5, 0.5], FlashSpec::BubbleTemperature { pressure: p }).unwrap();
     assert!(r.warnings.iter().any(|w| matches!(w, Warning::HighPressure { .. })));

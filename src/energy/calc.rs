@@ -833,8 +833,8 @@ impl<'a, K: KValueModel, H: PhaseEnthalpyModel> Calc<'a, K, H> {
     /// two-phase between bubble and dew points that coincide (a pure component, an
     /// azeotrope), where the duty rises at constant temperature.
     pub fn outlet_has_slope(outlet: &SolvedFlash, t_bub: f64, dew: Option<Option<f64>>) -> bool {
-        let at_constant_t = outlet.state.phase == Phase::TwoPhase
-            && matches!(dew, Some(Some(t_dew)) if t_dew - t_bub <= 1e-8 * t_dew);
+        let at_constant_t =
+            outlet.state.phase == Phase::TwoPhase && matches!(dew, Some(Some(t_dew)) if t_dew - t_bub <= 1e-8 * t_dew);
         !at_constant_t
     }
 

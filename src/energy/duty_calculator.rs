@@ -324,9 +324,9 @@ impl<K: KValueModel, H: PhaseEnthalpyModel> DutyCalculator<K, H> {
         outlet_pressure: Pressure,
     ) -> Result<DutySummary, EnergyError> {
         self.valid = false;
-        let (t_bub, dew) = self
-            .calc
-            .outlet_for_duty(inlet, duty, outlet_pressure, &mut self.inlet, &mut self.outlet)?;
+        let (t_bub, dew) =
+            self.calc
+                .outlet_for_duty(inlet, duty, outlet_pressure, &mut self.inlet, &mut self.outlet)?;
         self.valid = true;
         let slope = Calc::<K, H>::outlet_has_slope(&self.outlet, t_bub, dew);
         let mut summary = self.calc.summary(&self.inlet, &self.outlet, slope);

@@ -112,8 +112,8 @@ fn run_row(
     (id, out)
 }
 
-/// Runs the batch and returns the output text.
-pub fn run(lib: &Library, command: Command, name: &str, bytes: &[u8], json_lines: bool) -> CliResult<String> {
+/// Runs the batch and returns the output text and the number of rows that failed.
+pub fn run(lib: &Library, command: Command, name: &str, bytes: &[u8], json_lines: bool) -> CliResult<(String, usize)> {
     let sheet = sheet::read(name, bytes)?;
     let n = sheet.rows.len();
     let bar = if n >= PROGRESS_ROWS && std::io::stderr().is_terminal() {
@@ -135,6 +135,7 @@ pub fn run(lib: &Library, command: Command, name: &str, bytes: &[u8], json_lines
         })
         .collect();
     bar.finish_and_clear();
+    let failed = results.iter().filter(|(_, r)| r.is_err()).count();
 
     if json_lines {
         let mut out = String::new();
@@ -152,7 +153,7 @@ pub fn run(lib: &Library, command: Command, name: &str, bytes: &[u8], json_lines
             out.push_str(&v.to_string());
             out.push('\n');
         }
-        return Ok(out);
+        return Ok((out, failed));
     }
 
     let mut w = csv::WriterBuilder::new().from_writer(Vec::new());
@@ -181,5 +182,6 @@ pub fn run(lib: &Library, command: Command, name: &str, bytes: &[u8], json_lines
     let bytes = w
         .into_inner()
         .map_err(|e| CliError::new(format!("batch output: {e}")))?;
-    String::from_utf8(bytes).map_err(|_| CliError::new("batch output: not UTF-8"))
+    let text = String::from_utf8(bytes).map_err(|_| CliError::new("batch output: not UTF-8"))?;
+    Ok((text, failed))
 }

@@ -340,6 +340,9 @@ fn run_row(lib: &Library, sheet: &Sheet, row: &sheet::Row) -> RowResult {
 /// Checks every row of the sheet (in parallel; results in row order).
 pub fn run(lib: &Library, name: &str, bytes: &[u8]) -> CliResult<Vec<RowResult>> {
     let sheet = sheet::read(name, bytes)?;
+    if sheet.rows.is_empty() {
+        bail!("{name}: the sheet has no rows to check (a check of nothing is not a pass)");
+    }
     if !sheet.columns.iter().any(|c| c.role == Role::Command) {
         bail!("{name}: no 'command' column (each row names its command: flash, bubble, dew, duty or curve)");
     }

@@ -56,8 +56,9 @@ A case file is JSON (TOML when the name ends in .toml) with these keys:
   note             free text
 Unknown keys, and keys a command does not use, are errors.
 
-Exit codes: 0 success; 1 a check found rows outside tolerance; 2 bad input or a calculation that
-cannot be done (one line on stderr naming the field and value).
+Exit codes: 0 success; 1 a check found rows outside tolerance, or a --batch row failed (all rows
+are written); 2 bad input or a calculation that cannot be done (one line on stderr naming the
+field and value; with --json, one JSON object {\"error\": {\"kind\", \"field\", \"message\"}}).
 
 The full contract is in docs/CLI.md; example cases are in examples/.";
 
@@ -174,12 +175,13 @@ fn case_command(cli: &Cli, command: Command, args: &CaseArgs) -> CliResult<u8> {
     let lib = compute::library(&cli.component_files)?;
     if let Some(batch) = &args.batch {
         let bytes = read_file(batch, "--batch")?;
-        let text = batch::run(&lib, command, &batch.display().to_string(), &bytes, cli.json)?;
+        let (text, failed) = batch::run(&lib, command, &batch.display().to_string(), &bytes, cli.json)?;
         match &args.output {
             Some(p) => write_file(p, "--output", &text)?,
             None => print(&text)?,
         }
-        return Ok(0);
+        // Every row is written; the exit code says whether any failed.
+        return Ok(u8::from(failed > 0));
     }
     let Some(arg) = &args.case else {
         return Err(CliError::new(
@@ -288,7 +290,13 @@ fn main() -> ExitCode {
                     ExitCode::from(2)
                 }
                 _ => {
-                    let _ = writeln!(std::io::stderr(), "error: {}", clap_line(&e));
+                    let line = clap_line(&e);
+                    if std::env::args().any(|a| a == "--json") {
+                        let e = CliError::with_kind("invalid-arguments", line);
+                        let _ = writeln!(std::io::stderr(), "{}", e.to_json());
+                    } else {
+                        let _ = writeln!(std::io::stderr(), "error: {line}");
+                    }
                     ExitCode::from(2)
                 }
             };
@@ -297,7 +305,12 @@ fn main() -> ExitCode {
     match run(&cli) {
         Ok(code) => ExitCode::from(code),
         Err(e) => {
-            let _ = writeln!(std::io::stderr(), "error: {e}");
+            // With --json the error is one JSON object on stderr, as one line.
+            if cli.json {
+                let _ = writeln!(std::io::stderr(), "{}", e.to_json());
+            } else {
+                let _ = writeln!(std::io::stderr(), "error: {e}");
+            }
             ExitCode::from(2)
         }
     }
