@@ -1753,3 +1753,31 @@ fn batch_failures_exit_1_and_json_errors() {
     let v: Value = serde_json::from_str(String::from_utf8(out.stderr).unwrap().trim()).unwrap();
     assert_eq!(v["error"]["kind"], "invalid-arguments");
 }
+
+/// A key given twice in a JSON case is refused naming the key (serde_json alone would keep
+/// the last one silently); TOML refuses it already.
+#[test]
+fn duplicated_json_keys_are_refused() {
+    fails(
+        "flash",
+        r#"{"components": ["water"], "z": [1], "T": 300, "P": 1e5, "T": 400}"#,
+        &["key 'T' is given twice", "line 1"],
+    );
+    fails(
+        "duty",
+        r#"{"components": ["water"], "z": [1], "inlet": {"T": 300, "P": 1e5, "P": 2e5}, "outlet": {"T": 400, "P": 1e5}}"#,
+        &["key 'P' is given twice"],
+    );
+    let dir = tempfile::tempdir().unwrap();
+    let path = dir.path().join("case.json");
+    std::fs::write(
+        &path,
+        "{\"components\": [\"water\"],\n \"z\": [1],\n \"z\": [1], \"T\": 300, \"P\": 1e5}",
+    )
+    .unwrap();
+    let out = bin().args(["flash", "--json"]).arg(&path).output().unwrap();
+    let v: Value = serde_json::from_str(String::from_utf8(out.stderr).unwrap().trim()).unwrap();
+    assert_eq!(v["error"]["kind"], "duplicate-key");
+    assert_eq!(v["error"]["field"], "z");
+    assert!(v["error"]["message"].as_str().unwrap().contains("line 3"), "{v}");
+}

@@ -271,15 +271,15 @@ pub fn parse_text(name: &str, text: &str) -> CaseResult<Value> {
         bail!("{name}: empty (expected a case: a JSON object, or TOML)");
     }
     let value: Value = if name == "<stdin>" {
-        match serde_json::from_str(text) {
+        match json_value(text) {
             Ok(v) => v,
-            Err(e) if text.trim_start().starts_with(['{', '[']) => bail!("{name}: malformed JSON: {e}"),
+            Err(e) if text.trim_start().starts_with(['{', '[']) => return Err(json_error(name, e)),
             Err(_) => toml_value(name, text)?,
         }
     } else if is_toml_name(name) {
         toml_value(name, text)?
     } else {
-        serde_json::from_str(text).map_err(|e| CaseError::new(format!("{name}: malformed JSON: {e}")))?
+        json_value(text).map_err(|e| json_error(name, e))?
     };
     if !value.is_object() {
         bail!(
@@ -288,6 +288,98 @@ pub fn parse_text(name: &str, text: &str) -> CaseResult<Value> {
         );
     }
     Ok(value)
+}
+
+/// JSON text as a value, refusing a key given twice in one object (serde_json would keep
+/// the last silently; TOML refuses it already).
+fn json_value(text: &str) -> Result<Value, serde_json::Error> {
+    serde_json::from_str::<StrictValue>(text).map(|v| v.0)
+}
+
+/// The error of [`json_value`]: a duplicated key names the key (kind `duplicate-key`).
+fn json_error(name: &str, e: serde_json::Error) -> CaseError {
+    let text = e.to_string();
+    match text.strip_prefix(DUPLICATE_KEY) {
+        Some(rest) => {
+            let key = rest.split('\'').next().unwrap_or_default();
+            CaseError::with_kind(
+                "duplicate-key",
+                format!(
+                    "{name}: key '{key}' is given twice (at line {}, column {}); give each key once",
+                    e.line(),
+                    e.column()
+                ),
+            )
+            .with_field(key)
+        }
+        None => CaseError::new(format!("{name}: malformed JSON: {text}")),
+    }
+}
+
+const DUPLICATE_KEY: &str = "duplicate key '";
+
+/// A JSON value built by a visitor that refuses duplicated keys in any object.
+struct StrictValue(Value);
+
+impl<'de> serde::Deserialize<'de> for StrictValue {
+    fn deserialize<D: serde::Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
+        d.deserialize_any(StrictVisitor).map(StrictValue)
+    }
+}
+
+struct StrictVisitor;
+
+impl<'de> serde::de::Visitor<'de> for StrictVisitor {
+    type Value = Value;
+
+    fn expecting(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.write_str("a JSON value")
+    }
+    fn visit_bool<E>(self, v: bool) -> Result<Value, E> {
+        Ok(Value::Bool(v))
+    }
+    fn visit_i64<E>(self, v: i64) -> Result<Value, E> {
+        Ok(Value::from(v))
+    }
+    fn visit_u64<E>(self, v: u64) -> Result<Value, E> {
+        Ok(Value::from(v))
+    }
+    fn visit_f64<E>(self, v: f64) -> Result<Value, E> {
+        Ok(Value::from(v))
+    }
+    fn visit_str<E>(self, v: &str) -> Result<Value, E> {
+        Ok(Value::String(v.to_string()))
+    }
+    fn visit_string<E>(self, v: String) -> Result<Value, E> {
+        Ok(Value::String(v))
+    }
+    fn visit_unit<E>(self) -> Result<Value, E> {
+        Ok(Value::Null)
+    }
+    fn visit_none<E>(self) -> Result<Value, E> {
+        Ok(Value::Null)
+    }
+    fn visit_some<D: serde::Deserializer<'de>>(self, d: D) -> Result<Value, D::Error> {
+        serde::Deserialize::deserialize(d).map(|v: StrictValue| v.0)
+    }
+    fn visit_seq<A: serde::de::SeqAccess<'de>>(self, mut seq: A) -> Result<Value, A::Error> {
+        let mut items = Vec::new();
+        while let Some(StrictValue(v)) = seq.next_element()? {
+            items.push(v);
+        }
+        Ok(Value::Array(items))
+    }
+    fn visit_map<A: serde::de::MapAccess<'de>>(self, mut map: A) -> Result<Value, A::Error> {
+        let mut out = Map::new();
+        while let Some(key) = map.next_key::<String>()? {
+            if out.contains_key(&key) {
+                return Err(serde::de::Error::custom(format!("{DUPLICATE_KEY}{key}'")));
+            }
+            let StrictValue(v) = map.next_value()?;
+            out.insert(key, v);
+        }
+        Ok(Value::Object(out))
+    }
 }
 
 /// TOML text as a JSON value. TOML's `nan` and `inf` become the text "NaN" and "inf", so that
