@@ -83,3 +83,48 @@ fn no_raoult_doubt_for_a_pure_component() {
     let r = flash(&mix, &[1.0, 0.0], FlashSpec::BubbleTemperature { pressure: p }).unwrap();
     assert!(!r.warnings.iter().any(|w| matches!(w, Warning::HighPressure { .. })));
 }
+
+/// A bare number is SI: "T": 85 reads as 85 K and "P": 5 as 5 Pa, almost always a unit
+/// left out, so both are refused naming the reading and how to give a unit; with the unit
+/// written they are taken as meant. The same for a fit CSV column without a unit whose
+/// every value is that small.
+#[test]
+fn bare_numbers_too_small_for_si_are_refused() {
+    use flashduty::case::{Command, parse_case};
+    use serde_json::json;
+    let case = |t: serde_json::Value, p: serde_json::Value| json!({"components": ["water"], "z": [1], "T": t, "P": p});
+    let e = parse_case(&case(json!(85), json!(1e5)), Command::Flash).unwrap_err();
+    assert_eq!((e.kind(), e.field()), ("bare-number-suspect", Some("T")));
+    assert!(
+        e.message().contains("reads as 85 K") && e.message().contains("'85 degC'"),
+        "{e}"
+    );
+    let e = parse_case(&case(json!("85"), json!(1e5)), Command::Flash).unwrap_err();
+    assert_eq!(e.kind(), "bare-number-suspect");
+    let e = parse_case(&case(json!(300), json!(5)), Command::Flash).unwrap_err();
+    assert_eq!(e.field(), Some("P"));
+    assert!(
+        e.message().contains("reads as 5 Pa") && e.message().contains("'5 bar'"),
+        "{e}"
+    );
+    assert!(parse_case(&case(json!("85 K"), json!("5 Pa")), Command::Flash).is_ok());
+    assert!(parse_case(&case(json!(300), json!(101325)), Command::Flash).is_ok());
+    let e = parse_case(
+        &json!({"components": ["water"], "z": [1], "inlet": {"T": 20, "P": "1 atm"}, "outlet": {"T": 300, "P": "1 atm"}}),
+        Command::Duty,
+    )
+    .unwrap_err();
+    assert_eq!(e.field(), Some("inlet.T"));
+
+    use flashduty::fit::{DataKind, read_points_csv};
+    let e = read_points_csv("T,P\n20,2.3\n40,7.4\n", DataKind::VapourPressure).unwrap_err();
+    assert_eq!(e.kind(), "csv-bare-column");
+    assert!(e.to_string().contains("column 'T'"), "{e}");
+    let e = read_points_csv("T,P\n300,2.3\n320,7.4\n", DataKind::VapourPressure).unwrap_err();
+    assert!(
+        e.to_string().contains("column 'P'") && e.to_string().contains("P [kPa]"),
+        "{e}"
+    );
+    assert!(read_points_csv("T [K],P [Pa]\n120,2.3\n130,7.4\n", DataKind::VapourPressure).is_ok());
+    assert!(read_points_csv("T,P\n300,3500\n320,10500\n", DataKind::VapourPressure).is_ok());
+}

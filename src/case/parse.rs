@@ -542,8 +542,45 @@ fn quantity<Q>(
     }
 }
 
-/// A temperature: a number in K or a string with a unit.
+/// Below this, a bare temperature (a number without a unit, read as K) is refused as likely
+/// meant in °C or °F (common practice: no process stream is this cold).
+pub const BARE_TEMPERATURE_MIN_K: f64 = 150.0;
+/// Below this, a bare pressure (read as Pa) is refused as likely meant in kPa, bar or atm.
+pub const BARE_PRESSURE_MIN_PA: f64 = 1000.0;
+
+/// The number of a value given without a unit (a JSON number, or text that is only a
+/// number), else `None`.
+fn bare(v: &Value) -> Option<f64> {
+    match v {
+        Value::Number(n) => n.as_f64(),
+        Value::String(s) => s.trim().parse::<f64>().ok(),
+        _ => None,
+    }
+}
+
+/// Refuses a bare number below `min` in a quantity whose SI unit is `unit`: a bare number
+/// is SI, and such a small one is almost always a value typed in another unit.
+fn check_bare(field: &str, v: &Value, min: f64, unit: &str, example: &str) -> CaseResult<()> {
+    // Zero and negative values get the quantity's own, more specific, error.
+    if let Some(x) = bare(v)
+        && x.is_finite()
+        && x > 0.0
+        && x < min
+    {
+        return Err(CaseError::with_kind(
+            "bare-number-suspect",
+            format!(
+                "{field}: {x} has no unit, so it reads as {x} {unit} (a bare number is SI), below the {min} {unit}                  that a bare number may give; write the unit, e.g. '{x} {example}', or '{x} {unit}' if {unit} is meant"
+            ),
+        ));
+    }
+    Ok(())
+}
+
+/// A temperature: a number in K or a string with a unit. A bare number below
+/// [`BARE_TEMPERATURE_MIN_K`] is refused (it is almost always °C or °F typed without a unit).
 pub fn temperature(field: &str, v: &Value) -> CaseResult<Temperature> {
+    check_bare(field, v, BARE_TEMPERATURE_MIN_K, "K", "degC")?;
     let t = quantity(field, v, Temperature::new, Temperature::parse, "65 degC")?;
     let (lo, hi) = (
         crate::equilibrium::SEARCH_MIN_TEMPERATURE_K,
@@ -580,8 +617,10 @@ pub fn short_number(x: f64) -> String {
     }
 }
 
-/// A pressure: a number in Pa or a string with a unit.
+/// A pressure: a number in Pa or a string with a unit. A bare number below
+/// [`BARE_PRESSURE_MIN_PA`] is refused (it is almost always kPa, bar or atm without a unit).
 pub fn pressure(field: &str, v: &Value) -> CaseResult<Pressure> {
+    check_bare(field, v, BARE_PRESSURE_MIN_PA, "Pa", "bar")?;
     let p = quantity(field, v, Pressure::new, Pressure::parse, "1 atm")?;
     if !(MIN_PRESSURE_PA..=MAX_PRESSURE_PA).contains(&p.pascal()) {
         bail!(

@@ -151,7 +151,7 @@ pub fn read_points_csv(text: &str, kind: DataKind) -> Result<Vec<DataPoint>, Fit
     }
 
     // Value column and its conversion to SI.
-    let (v_col, to_si): (usize, Box<dyn Fn(f64) -> f64>) = match kind {
+    let (v_col, to_si, v_unit_none): (usize, Box<dyn Fn(f64) -> f64>, bool) = match kind {
         DataKind::VapourPressure => {
             let p_ok = |u: &str| units::to_si(QuantityKind::Pressure, "", 1.0, u).is_ok();
             let (col, unit) = cells
@@ -160,7 +160,7 @@ pub fn read_points_csv(text: &str, kind: DataKind) -> Result<Vec<DataPoint>, Fit
                 .find_map(|(i, c)| match_header(c, PRESSURE_NAMES, p_ok).map(|u| (i, u)))
                 .ok_or_else(|| missing("vapour pressure"))?;
             match unit {
-                None => (col, Box::new(|v| v)),
+                None => (col, Box::new(|v| v), true),
                 Some(u) => {
                     // Pressure units are all pure scales.
                     let factor = units::to_si(QuantityKind::Pressure, &cells[col], 1.0, &u).map_err(|source| {
@@ -169,7 +169,7 @@ pub fn read_points_csv(text: &str, kind: DataKind) -> Result<Vec<DataPoint>, Fit
                             source,
                         }
                     })?;
-                    (col, Box::new(move |v| v * factor))
+                    (col, Box::new(move |v| v * factor), false)
                 }
             }
         }
@@ -181,14 +181,14 @@ pub fn read_points_csv(text: &str, kind: DataKind) -> Result<Vec<DataPoint>, Fit
                 .find_map(|(i, c)| match_header(c, CP_NAMES, cp_ok).map(|u| (i, u)))
                 .ok_or_else(|| missing("heat capacity"))?;
             match unit {
-                None => (col, Box::new(|v| v)),
+                None => (col, Box::new(|v| v), false),
                 Some(u) => {
                     let factor = cp_unit_factor(&u).ok_or_else(|| FitError::CsvHeatCapacityUnit {
                         line: header_line,
                         column: cells[col].clone(),
                         unit: u.clone(),
                     })?;
-                    (col, Box::new(move |v| v * factor))
+                    (col, Box::new(move |v| v * factor), false)
                 }
             }
         }
@@ -223,6 +223,27 @@ pub fn read_points_csv(text: &str, kind: DataKind) -> Result<Vec<DataPoint>, Fit
             _ => t,
         };
         points.push(DataPoint::new(t_k, if v.is_finite() { to_si(v) } else { v }));
+    }
+    // A column with no unit whose every value is below what SI data give.
+    let bare = |col: usize, unitless: bool, min: f64, unit: &'static str, example: &'static str, values: &[f64]| {
+        let all_low = !values.is_empty() && values.iter().all(|x| x.is_finite() && *x > 0.0 && *x < min);
+        (unitless && all_low).then(|| FitError::CsvBareColumn {
+            line: header_line,
+            column: cells[col].clone(),
+            unit,
+            min,
+            example,
+        })
+    };
+    let temperatures: Vec<f64> = points.iter().map(|p| p.t_k).collect();
+    if let Some(e) = bare(t_col, t_unit.is_none(), 150.0, "K", "T [degC]", &temperatures) {
+        return Err(e);
+    }
+    let values: Vec<f64> = points.iter().map(|p| p.value).collect();
+    if kind == DataKind::VapourPressure
+        && let Some(e) = bare(v_col, v_unit_none, 1000.0, "Pa", "P [kPa]", &values)
+    {
+        return Err(e);
     }
     Ok(points)
 }

@@ -160,6 +160,24 @@ pub enum FitError {
         /// The text found.
         text: String,
     },
+    /// A column without a unit (so read as SI) whose every value is below what SI data
+    /// give (temperatures below 150 K, pressures below 1,000 Pa): almost always °C, kPa, bar
+    /// or mmHg typed without the unit.
+    #[error(
+        "CSV line {line}: column '{column}' has no unit, so its values read as {unit} (a bare number is SI), and all are below {min} {unit}; name the unit in the header, e.g. '{example}', or '[{unit}]' if {unit} is meant"
+    )]
+    CsvBareColumn {
+        /// 1-based line of the header.
+        line: usize,
+        /// The header cell.
+        column: String,
+        /// The SI unit the values were read in.
+        unit: &'static str,
+        /// The smallest SI value expected of such data.
+        min: f64,
+        /// A header that names a unit.
+        example: &'static str,
+    },
     /// A required value of a user component was not given.
     #[error("user component '{component}': {field} is required")]
     MissingField {
@@ -219,6 +237,7 @@ impl FitError {
             FitError::CsvHeatCapacityUnit { .. } => "csv-heat-capacity-unit",
             FitError::CsvFieldCount { .. } => "csv-field-count",
             FitError::CsvNumber { .. } => "csv-number",
+            FitError::CsvBareColumn { .. } => "csv-bare-column",
             FitError::MissingField { .. } => "missing-field",
             FitError::InvalidValue { .. } => "invalid-value",
             FitError::ChecksFailed { .. } => "checks-failed",
