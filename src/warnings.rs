@@ -118,6 +118,18 @@ pub enum Warning {
         /// The other outlet temperatures found with the same enthalpy, K, ascending.
         other_outlet_temperatures_k: Vec<f64>,
     },
+    /// The mole fractions given summed to within 1e-3 of 1 but not to 1 (as 0.3333 three
+    /// times does), and were normalised. Further off, they are refused.
+    ///
+    /// ```
+    /// use flashduty::warnings::Warning;
+    /// let w = Warning::CompositionNormalised { sum: 0.9999 };
+    /// assert!(w.to_string().contains("0.9999"));
+    /// ```
+    CompositionNormalised {
+        /// The sum of the mole fractions as given.
+        sum: f64,
+    },
     /// The feed holds water and components the library marks as immiscible with it, and
     /// the flash has one liquid: a second liquid phase is likely, and bubble points, dew
     /// points and duties can be wrong by tens of kelvin and by the latent heat that goes
@@ -220,6 +232,10 @@ impl fmt::Display for Warning {
                     others
                 )
             }
+            Warning::CompositionNormalised { sum } => write!(
+                f,
+                "z: the mole fractions given sum to {sum}, not 1; they were normalised to sum to 1"
+            ),
             Warning::SecondLiquidLikely { components } => write!(
                 f,
                 "water and {} do not mix as liquids: a second liquid phase is likely, which this one-liquid result ignores (bubble and dew points and duties can be far off); set water_phase to \"immiscible\"",

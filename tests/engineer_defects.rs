@@ -128,3 +128,52 @@ fn bare_numbers_too_small_for_si_are_refused() {
     assert!(read_points_csv("T [K],P [Pa]\n120,2.3\n130,7.4\n", DataKind::VapourPressure).is_ok());
     assert!(read_points_csv("T,P\n300,3500\n320,10500\n", DataKind::VapourPressure).is_ok());
 }
+
+/// Mole fractions typed as engineers type them: 0.3333 three times is normalised with a
+/// warning that gives the sum; a sum further than 1e-3 from 1 is refused as before.
+#[test]
+fn typed_mole_fractions_are_normalised_with_a_warning() {
+    use flashduty::case::{Command, parse_case, run};
+    use flashduty::library::Library;
+    use serde_json::json;
+    let lib = Library::builtin();
+    let case = json!({"components": ["benzene", "toluene", "p-xylene"], "z": [0.3333, 0.3333, 0.3333], "T": "100 degC", "P": "1 atm"});
+    let out = run(lib, Command::Flash, &parse_case(&case, Command::Flash).unwrap(), None)
+        .unwrap()
+        .to_json();
+    let z: Vec<f64> = serde_json::from_value(out["z"].clone()).unwrap();
+    assert!((z.iter().sum::<f64>() - 1.0).abs() < 1e-15);
+    assert_eq!(out["warnings"][0]["kind"], "composition-normalised");
+    assert!(out["warnings"][0]["message"].as_str().unwrap().contains("0.9999"));
+    // A duty and a given-K flash carry it too.
+    let duty = json!({"components": ["benzene", "toluene"], "z": [0.4999, 0.5], "inlet": {"T": 300, "P": 1e5}, "outlet": {"T": 320, "P": 1e5}});
+    let out = run(lib, Command::Duty, &parse_case(&duty, Command::Duty).unwrap(), None)
+        .unwrap()
+        .to_json();
+    assert_eq!(out["warnings"][0]["kind"], "composition-normalised");
+    let k = json!({"z": [0.5, 0.4995], "K": [2.0, 0.5]});
+    let out = run(lib, Command::Flash, &parse_case(&k, Command::Flash).unwrap(), None)
+        .unwrap()
+        .to_json();
+    assert_eq!(out["warnings"][0]["kind"], "composition-normalised");
+    // Exact sums: no warning.
+    let exact = json!({"components": ["benzene", "toluene"], "z": [0.5, 0.5], "T": "100 degC", "P": "1 atm"});
+    let out = run(lib, Command::Flash, &parse_case(&exact, Command::Flash).unwrap(), None)
+        .unwrap()
+        .to_json();
+    assert!(
+        out["warnings"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .all(|w| w["kind"] != "composition-normalised")
+    );
+    // Too far: refused.
+    let far = json!({"components": ["benzene", "toluene"], "z": [0.5, 0.49], "T": "100 degC", "P": "1 atm"});
+    let e = run(lib, Command::Flash, &parse_case(&far, Command::Flash).unwrap(), None).unwrap_err();
+    assert_eq!((e.kind(), e.field()), ("mole-fraction-sum", Some("z")));
+    assert!(
+        e.message().contains("0.99") && e.message().contains("within 0.001"),
+        "{e}"
+    );
+}

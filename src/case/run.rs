@@ -38,6 +38,32 @@ pub struct Feed {
     pub z: Vec<f64>,
     /// Total molar flow, mol/s, when a flow was given (or implied by component flows).
     pub flow_mol_s: Option<f64>,
+    /// Warnings about the feed as given (mole fractions normalised).
+    pub warnings: Vec<Warning>,
+}
+
+/// How far from 1 typed mole fractions may sum and still be normalised (with a warning):
+/// 0.3333 three times is 0.9999.
+pub const TYPED_SUM_TOLERANCE: f64 = 1e-3;
+
+/// Mole fractions as typed: refused where their sum is more than [`TYPED_SUM_TOLERANCE`]
+/// from 1, normalised with a warning where it is off at all (beyond round-off).
+fn typed_z(z: &[f64], warnings: &mut Vec<Warning>) -> CaseResult<Vec<f64>> {
+    let sum: f64 = z.iter().sum();
+    if !sum.is_finite() || (sum - 1.0).abs() > TYPED_SUM_TOLERANCE {
+        return Err(CaseError::with_kind(
+            "mole-fraction-sum",
+            format!(
+                "z: mole fractions sum to {sum}, not 1 (within {TYPED_SUM_TOLERANCE}); give flows instead to have them normalised"
+            ),
+        ));
+    }
+    if (sum - 1.0).abs() > 1e-9 {
+        warnings.push(Warning::CompositionNormalised { sum });
+        Ok(z.iter().map(|v| v / sum).collect())
+    } else {
+        Ok(z.to_vec())
+    }
 }
 
 /// A flash-like state ready for output.
@@ -184,6 +210,7 @@ pub fn feed(lib: &Library, case: &Case) -> CaseResult<Feed> {
     };
     let comps = components(lib, names)?;
     let n = comps.len();
+    let mut warnings = Vec::new();
     let stream = match (&case.z, &case.flows) {
         (Some(_), Some(_)) => bail!("z and flows: give one of them, not both"),
         (None, None) => bail!("z: missing (give z, the mole fractions, or flows, the component flows)"),
@@ -191,6 +218,7 @@ pub fn feed(lib: &Library, case: &Case) -> CaseResult<Feed> {
             if z.len() != n {
                 bail!("z: {} mole fractions given for {n} components", z.len());
             }
+            let z = &typed_z(z, &mut warnings)?;
             let flow = match case.flow {
                 Some(TotalFlow::Molar(m)) => m,
                 _ => MolarFlow::new("flow", 1.0)?,
@@ -229,6 +257,7 @@ pub fn feed(lib: &Library, case: &Case) -> CaseResult<Feed> {
         z: stream.z().to_vec(),
         flow_mol_s: flow_given.then(|| stream.flow().mol_per_s()),
         stream: Some(stream),
+        warnings,
     })
 }
 
@@ -324,9 +353,9 @@ fn k_flash(case: &Case) -> CaseResult<FlashOutcome> {
             bail!("flow: a mass flow needs molar masses; with given K-values give a molar flow (e.g. '3.6 kmol/h')")
         }
     };
-    let split = rachford_rice(z, k)?;
-    let sum: f64 = z.iter().sum();
-    let z: Vec<f64> = z.iter().map(|v| v / sum).collect();
+    let mut warnings = Vec::new();
+    let z = typed_z(z, &mut warnings)?;
+    let split = rachford_rice(&z, k)?;
     let state = State {
         phase: split.phase,
         vapour_fraction: split.vapour_fraction,
@@ -338,7 +367,7 @@ fn k_flash(case: &Case) -> CaseResult<FlashOutcome> {
         k: k.clone(),
         iterations: split.iterations,
         sensitivity: None,
-        warnings: Vec::new(),
+        warnings: warnings.clone(),
         water: None,
     };
     Ok(FlashOutcome {
@@ -349,6 +378,7 @@ fn k_flash(case: &Case) -> CaseResult<FlashOutcome> {
             stream: None,
             z,
             flow_mol_s: flow,
+            warnings,
         },
         state,
         given_k: true,
@@ -364,10 +394,12 @@ fn flash_with(feed: Feed, command: Command, spec_name: &'static str, spec: Flash
         Some(w) => flash_with_water(&model, w, &feed.z, spec)?,
         None => flash(&model, &feed.z, spec)?,
     };
+    let mut state = State::from(&r);
+    state.warnings.splice(0..0, feed.warnings.iter().cloned());
     Ok(FlashOutcome {
         command,
         spec: spec_name,
-        state: State::from(&r),
+        state,
         feed,
         given_k: false,
     })
@@ -479,7 +511,8 @@ fn duty_result(feed: &Feed, case: &Case) -> CaseResult<(DutyResult, bool)> {
 
 fn duty_case(lib: &Library, case: &Case) -> CaseResult<DutyOutcome> {
     let feed = feed(lib, case)?;
-    let (result, duty_given) = duty_result(&feed, case)?;
+    let (mut result, duty_given) = duty_result(&feed, case)?;
+    result.warnings.splice(0..0, feed.warnings.iter().cloned());
     if !result.duty_w.is_finite() {
         bail!("duty: the result is not a finite number (is the flow absurdly large?)");
     }
@@ -514,7 +547,8 @@ fn curve_case(lib: &Library, case: &Case, points: Option<usize>) -> CaseResult<C
             pressure: p,
         },
     };
-    let curve = heating_curve(stream, inlet, outlet, points, options(case))?;
+    let mut curve = heating_curve(stream, inlet, outlet, points, options(case))?;
+    curve.warnings.splice(0..0, feed.warnings.iter().cloned());
     if curve
         .points
         .iter()
