@@ -30,7 +30,7 @@ pub const SCHEMA: &str = "flashduty-components/1";
 
 /// A look-up that found nothing.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
-#[error("unknown component '{name}'{}", suggestion_text(.suggestions))]
+#[error("unknown component '{}'{}", crate::units::clip(.name), suggestion_text(.suggestions))]
 pub struct UnknownComponent {
     /// The name or CAS number asked for.
     pub name: String,
@@ -309,8 +309,16 @@ impl Library {
         names.iter().map(|n| self.get(n.as_ref()).cloned()).collect()
     }
 
-    /// The nearest known names to `name` (edit distance), at most three.
+    /// Names longer than this get no suggestions: no library name is near them, and the edit
+    /// distance to a multi-megabyte text would take seconds.
+    pub const SUGGEST_MAX_CHARS: usize = 64;
+
+    /// The nearest known names to `name` (edit distance), at most three; none for a name of
+    /// more than [`Self::SUGGEST_MAX_CHARS`] characters.
     pub fn suggest(&self, name: &str) -> Vec<String> {
+        if name.len() > 4 * Self::SUGGEST_MAX_CHARS || name.chars().count() > Self::SUGGEST_MAX_CHARS {
+            return Vec::new();
+        }
         let k = key(name);
         // (rank, edit distance, name): a known name that contains what was typed ranks as
         // distance 1, and the true edit distance breaks ties.

@@ -25,7 +25,7 @@ use std::fmt;
 #[non_exhaustive]
 pub enum UnitError {
     /// The text does not start with a number.
-    #[error("{field}: '{text}' is not a number (expected e.g. '{example}')")]
+    #[error("{field}: '{}' is not a number (expected e.g. '{example}')", clip(.text))]
     NotANumber {
         /// The field being read.
         field: String,
@@ -35,7 +35,7 @@ pub enum UnitError {
         example: &'static str,
     },
     /// The unit is not one this quantity accepts.
-    #[error("{field}: unknown {kind} unit '{unit}' (accepted: {accepted})")]
+    #[error("{field}: unknown {kind} unit '{}' (accepted: {accepted})", clip(.unit))]
     UnknownUnit {
         /// The field being read.
         field: String,
@@ -138,6 +138,26 @@ pub const POUND_KG: f64 = 0.453_592_37;
 pub const PSI_PA: f64 = POUND_KG * 9.806_65 / (0.0254 * 0.0254);
 /// Standard atmosphere in Pa (exact; NIST SP 811 B.8).
 pub const ATM_PA: f64 = 101_325.0;
+
+/// The longest text an error message echoes whole, in characters.
+pub const ECHO_MAX_CHARS: usize = 60;
+
+/// `text` as error messages echo it: whole up to [`ECHO_MAX_CHARS`] characters, else its
+/// start and its length, so that a multi-megabyte value gives a one-line message.
+///
+/// ```
+/// use flashduty::units::clip;
+/// assert_eq!(clip("toluene"), "toluene");
+/// let long = "x".repeat(1_000_000);
+/// assert_eq!(clip(&long), format!("{}... (1000000 characters)", "x".repeat(57)));
+/// ```
+pub fn clip(text: &str) -> std::borrow::Cow<'_, str> {
+    if text.len() <= ECHO_MAX_CHARS || text.chars().count() <= ECHO_MAX_CHARS {
+        return std::borrow::Cow::Borrowed(text);
+    }
+    let start: String = text.chars().take(ECHO_MAX_CHARS - 3).collect();
+    std::borrow::Cow::Owned(format!("{start}... ({} characters)", text.chars().count()))
+}
 /// Molar gas constant, J/(mol·K) (CODATA 2018; exact since the 2019 SI redefinition): the
 /// one definition the crate uses.
 pub const GAS_CONSTANT: f64 = 8.314_462_618;

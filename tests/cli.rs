@@ -1781,3 +1781,30 @@ fn duplicated_json_keys_are_refused() {
     assert_eq!(v["error"]["field"], "z");
     assert!(v["error"]["message"].as_str().unwrap().contains("line 3"), "{v}");
 }
+
+/// Multi-megabyte names, units, keys and sheet headers: one short line, quickly (no
+/// did-you-mean search over them, the echoed value cut to its start and length).
+#[test]
+fn long_inputs_give_short_errors() {
+    let long = "x".repeat(2_000_000);
+    let cases = [
+        json!({"components": [long.clone()], "z": [1], "T": 300, "P": 1e5}),
+        json!({"components": ["water"], "z": [1], "T": format!("300 {long}"), "P": 1e5}),
+        json!({"components": ["water"], "z": [1], "T": 300, "P": 1e5, long.clone(): 1}),
+    ];
+    for case in cases {
+        let out = bin()
+            .args(["flash", "-"])
+            .write_stdin(case.to_string())
+            .output()
+            .unwrap();
+        assert_error_output(&out, &["(2000000 characters)"]);
+        assert!(out.stderr.len() < 1_000, "{} bytes", out.stderr.len());
+    }
+    let dir = tempfile::tempdir().unwrap();
+    let path = dir.path().join("sheet.csv");
+    std::fs::write(&path, format!("command,{long},z\nflash,1,1\n")).unwrap();
+    let out = bin().args(["flash", "--batch"]).arg(&path).output().unwrap();
+    assert_error_output(&out, &["(2000000 characters)"]);
+    assert!(out.stderr.len() < 1_000, "{} bytes", out.stderr.len());
+}

@@ -431,6 +431,9 @@ pub fn show(v: &Value) -> String {
 
 /// The nearest known key to `key`, if any is near.
 pub fn suggest_key(key: &str, known: &[&str]) -> Option<String> {
+    if key.len() > 256 {
+        return None;
+    }
     let lower = key.trim().to_lowercase();
     if let Some((_, k)) = ALIASES.iter().find(|(a, _)| *a == lower)
         && known.contains(k)
@@ -457,7 +460,7 @@ pub fn suggest_key(key: &str, known: &[&str]) -> Option<String> {
 pub use crate::library::edit_distance;
 
 fn unknown_key(prefix: &str, key: &str, known: &[&str]) -> CaseError {
-    let full = format!("{prefix}{key}");
+    let full = format!("{prefix}{}", crate::units::clip(key));
     let hint = suggest_key(key, known)
         .map(|k| format!(" (did you mean '{prefix}{k}'?)"))
         .unwrap_or_default();

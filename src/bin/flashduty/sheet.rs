@@ -77,24 +77,26 @@ pub struct Sheet {
 /// Splits `T [degC]` into `("T", Some("degC"))`.
 pub fn split_header(cell: &str) -> CliResult<(String, Option<String>)> {
     let cell = cell.trim();
+    // Messages echo at most the start of a very long header.
+    let shown = flashduty::units::clip(cell);
     match cell.find('[') {
         None => {
             if cell.contains(']') {
-                bail!("column '{cell}': ']' without '['");
+                bail!("column '{shown}': ']' without '['");
             }
             Ok((cell.to_string(), None))
         }
         Some(open) => {
             let rest = &cell[open + 1..];
             let Some(close) = rest.find(']') else {
-                bail!("column '{cell}': '[' without ']' (write units as 'T [degC]')");
+                bail!("column '{shown}': '[' without ']' (write units as 'T [degC]')");
             };
             if !rest[close + 1..].trim().is_empty() {
-                bail!("column '{cell}': text after the unit (write units as 'T [degC]')");
+                bail!("column '{shown}': text after the unit (write units as 'T [degC]')");
             }
             let unit = rest[..close].trim();
             if unit.is_empty() {
-                bail!("column '{cell}': empty unit in brackets");
+                bail!("column '{shown}': empty unit in brackets");
             }
             Ok((cell[..open].trim().to_string(), Some(unit.to_string())))
         }
@@ -102,6 +104,9 @@ pub fn split_header(cell: &str) -> CliResult<(String, Option<String>)> {
 }
 
 fn field_role(name: &str, header: &str) -> CliResult<Role> {
+    // Messages echo at most the start of a very long header (no case key is that long).
+    let header = &*flashduty::units::clip(header);
+    let name = &*flashduty::units::clip(name);
     let parts: Vec<String> = name.split('.').map(|s| s.trim().to_string()).collect();
     let top = parts[0].as_str();
     let check_nested = |known: &[&str]| -> CliResult<()> {
