@@ -46,6 +46,18 @@ pub enum UnitError {
         /// The units that are accepted, comma separated.
         accepted: String,
     },
+    /// A gauge pressure unit: the flash needs an absolute pressure, and a gauge reading
+    /// needs the local atmosphere to become one.
+    #[error(
+        "{field}: '{}' is a gauge pressure (relative to the local atmosphere); the flash needs an absolute pressure, so add the local atmospheric pressure (101.325 kPa at sea level) and give it in an absolute unit (bara, psia, kPa, atm)",
+        clip(.unit)
+    )]
+    GaugePressure {
+        /// The field being read.
+        field: String,
+        /// The unit given.
+        unit: String,
+    },
     /// The value is NaN or infinite.
     #[error("{field}: value {value} is not finite")]
     NotFinite {
@@ -81,6 +93,7 @@ impl UnitError {
         match self {
             UnitError::NotANumber { .. } => "not-a-number",
             UnitError::UnknownUnit { .. } => "unknown-unit",
+            UnitError::GaugePressure { .. } => "gauge-pressure",
             UnitError::NotFinite { .. } => "not-finite",
             UnitError::OutOfRange { .. } => "out-of-range",
         }
@@ -165,6 +178,18 @@ pub const GAS_CONSTANT: f64 = 8.314_462_618;
 pub const MMHG_PA: f64 = 133.322_387_415;
 /// International Table British thermal unit in J (exact; NIST SP 811 B.8).
 pub const BTU_J: f64 = 1_055.055_852_62;
+/// International Table calorie in J (exact; NIST SP 811 B.8), the calorie of process heat
+/// duties in kcal/h and Gcal/h.
+pub const CALORIE_IT_J: f64 = 4.1868;
+/// Cubic foot in m³ (exact: 0.3048³; NIST SP 811 B.8).
+pub const CUBIC_FOOT_M3: f64 = 0.3048 * 0.3048 * 0.3048;
+/// Moles of ideal gas in one normal cubic metre (0 °C, 101.325 kPa; DIN 1343), mol.
+pub const NORMAL_M3_MOL: f64 = ATM_PA / (GAS_CONSTANT * 273.15);
+/// Moles of ideal gas in one standard cubic metre (15 °C, 101.325 kPa; ISO 13443), mol.
+pub const STANDARD_M3_MOL: f64 = ATM_PA / (GAS_CONSTANT * 288.15);
+/// Moles of ideal gas in one standard cubic foot (60 °F, 14.696 psia; the US gas-industry
+/// convention, common practice), mol: about 379.5 scf per lbmol.
+pub const STANDARD_FT3_MOL: f64 = 14.696 * PSI_PA * CUBIC_FOOT_M3 / (GAS_CONSTANT * (60.0 + 459.67) * 5.0 / 9.0);
 
 const TEMPERATURE_UNITS: &[UnitDef] = &[
     unit(&["K", "kelvin"], 1.0),
@@ -199,21 +224,32 @@ const PRESSURE_UNITS: &[UnitDef] = &[
 const MOLAR_FLOW_UNITS: &[UnitDef] = &[
     unit(&["mol/s"], 1.0),
     unit(&["mol/min"], 1.0 / 60.0),
-    unit(&["mol/h"], 1.0 / 3600.0),
-    unit(&["kmol/s"], 1e3),
-    unit(&["kmol/min"], 1e3 / 60.0),
-    unit(&["kmol/h"], 1e3 / 3600.0),
-    unit(&["lbmol/h"], POUND_KG * 1e3 / 3600.0),
+    unit(&["mol/h", "mol/hr"], 1.0 / 3600.0),
+    unit(&["kmol/s", "kgmol/s"], 1e3),
+    unit(&["kmol/min", "kgmol/min"], 1e3 / 60.0),
+    unit(&["kmol/h", "kmol/hr", "kgmol/h", "kgmol/hr"], 1e3 / 3600.0),
+    unit(&["kmol/d", "kmol/day", "kgmol/d"], 1e3 / 86_400.0),
+    unit(&["lbmol/h", "lbmol/hr"], POUND_KG * 1e3 / 3600.0),
     unit(&["lbmol/s"], POUND_KG * 1e3),
+    // Standard volumetric gas flows, as ideal gas at the stated standard conditions.
+    unit(&["Nm3/h", "Nm3/hr", "Nm³/h"], NORMAL_M3_MOL / 3600.0),
+    unit(&["Nm3/d", "Nm3/day"], NORMAL_M3_MOL / 86_400.0),
+    unit(&["Sm3/h", "Sm3/hr", "Sm³/h"], STANDARD_M3_MOL / 3600.0),
+    unit(&["Sm3/d", "Sm3/day"], STANDARD_M3_MOL / 86_400.0),
+    unit(&["scfm", "SCFM"], STANDARD_FT3_MOL / 60.0),
+    unit(&["scfh", "SCFH"], STANDARD_FT3_MOL / 3600.0),
+    unit(&["scfd", "SCFD"], STANDARD_FT3_MOL / 86_400.0),
+    unit(&["MMSCFD", "MMscfd", "MMscf/d"], STANDARD_FT3_MOL * 1e6 / 86_400.0),
 ];
 
 const MASS_FLOW_UNITS: &[UnitDef] = &[
     unit(&["kg/s"], 1.0),
     unit(&["kg/min"], 1.0 / 60.0),
-    unit(&["kg/h"], 1.0 / 3600.0),
+    unit(&["kg/h", "kg/hr"], 1.0 / 3600.0),
     unit(&["g/s"], 1e-3),
-    unit(&["t/h", "tonne/h"], 1e3 / 3600.0),
-    unit(&["lb/h"], POUND_KG / 3600.0),
+    unit(&["t/h", "tonne/h", "t/hr"], 1e3 / 3600.0),
+    unit(&["t/d", "tonne/d", "t/day", "tpd"], 1e3 / 86_400.0),
+    unit(&["lb/h", "lb/hr"], POUND_KG / 3600.0),
     unit(&["lb/s"], POUND_KG),
 ];
 
@@ -224,8 +260,11 @@ const POWER_UNITS: &[UnitDef] = &[
     unit(&["kJ/h"], 1e3 / 3600.0),
     unit(&["MJ/h"], 1e6 / 3600.0),
     unit(&["GJ/h"], 1e9 / 3600.0),
-    unit(&["Btu/h"], BTU_J / 3600.0),
-    unit(&["MMBtu/h"], BTU_J * 1e6 / 3600.0),
+    unit(&["Btu/h", "Btu/hr", "BTU/h", "BTU/hr"], BTU_J / 3600.0),
+    unit(&["MMBtu/h", "MMBtu/hr", "MMBTU/h", "MMBTU/hr"], BTU_J * 1e6 / 3600.0),
+    unit(&["kcal/h", "kcal/hr"], CALORIE_IT_J * 1e3 / 3600.0),
+    unit(&["Mcal/h", "Mcal/hr"], CALORIE_IT_J * 1e6 / 3600.0),
+    unit(&["Gcal/h", "Gcal/hr"], CALORIE_IT_J * 1e9 / 3600.0),
 ];
 
 const MOLAR_ENTHALPY_UNITS: &[UnitDef] = &[
@@ -261,8 +300,19 @@ fn accepted(kind: QuantityKind) -> String {
     table(kind).iter().map(|u| u.names[0]).collect::<Vec<_>>().join(", ")
 }
 
+/// Gauge pressure units, refused with the reason.
+const GAUGE_UNITS: &[&str] = &[
+    "psig", "psi", "barg", "kPag", "kpag", "kPa(g)", "bar(g)", "psi(g)", "MPag", "kg/cm2g",
+];
+
 fn find_unit(kind: QuantityKind, field: &str, name: &str) -> Result<&'static UnitDef, UnitError> {
     let name = name.trim();
+    if kind == QuantityKind::Pressure && GAUGE_UNITS.iter().any(|g| g.eq_ignore_ascii_case(name)) {
+        return Err(UnitError::GaugePressure {
+            field: field.to_string(),
+            unit: name.to_string(),
+        });
+    }
     let defs = table(kind);
     // Exact spelling first (so "mbar" and "MPa" keep their case), then case-insensitive.
     defs.iter()

@@ -129,3 +129,36 @@ fn unit_errors() {
         );
     }
 }
+
+/// The spellings engineers type, against published conversions: the normal molar volume of
+/// an ideal gas, 22.413 969 L/mol at 0 °C and 101.325 kPa (CODATA 2018); 379.5 standard
+/// cubic feet per lbmol at 60 °F and 14.696 psia (GPSA Engineering Data Book, from memory);
+/// 1 kcal(IT) = 4186.8 J and 1 Btu(IT) = 1055.055 852 62 J (NIST SP 811 B.8).
+#[test]
+fn engineering_unit_spellings() {
+    use flashduty::units::{MassFlow, MolarFlow, Power, Pressure};
+    let molar = |t: &str| MolarFlow::parse("flow", t).unwrap().mol_per_s();
+    assert!((molar("3.6 kmol/hr") - 1.0).abs() < 1e-15);
+    assert!((molar("3.6 kgmol/h") - 1.0).abs() < 1e-15);
+    assert!((molar("7.936641438 lbmol/hr") - 1.0).abs() < 1e-9);
+    assert!((molar("3600 Nm3/h") / (1000.0 / 22.413_969_54) - 1.0).abs() < 1e-8);
+    let scf_per_lbmol = 453.592_37 / (molar("1 scfm") * 60.0);
+    assert!((scf_per_lbmol - 379.5).abs() < 0.1, "{scf_per_lbmol}");
+    assert!((molar("1 MMSCFD") / (molar("1 scfd") * 1e6) - 1.0).abs() < 1e-12);
+    let mass = |t: &str| MassFlow::parse("flow", t).unwrap().kg_per_s();
+    assert!((mass("3.6 t/h") - 1.0).abs() < 1e-15);
+    assert!((mass("86.4 t/d") - 1.0).abs() < 1e-15);
+    assert!((mass("7936.641438 lb/hr") - 1.0).abs() < 1e-9);
+    let power = |t: &str| Power::parse("duty", t).unwrap().watts();
+    assert!((power("1 MW") - 1e6).abs() < 1e-9);
+    assert!((power("3600 kcal/h") - 4186.8).abs() < 1e-9);
+    assert!((power("1 Gcal/h") - 4.1868e9 / 3600.0).abs() < 1e-6);
+    assert!((power("3600 Btu/hr") - 1_055.055_852_62).abs() < 1e-9);
+    assert!((power("1 MMBtu/hr") - power("1 MMBtu/h")).abs() == 0.0);
+    // Gauge pressures are refused with the reason.
+    for g in ["2 barg", "30 psig", "30 psi", "100 kPag"] {
+        let e = Pressure::parse("P", g).unwrap_err();
+        assert_eq!(e.kind(), "gauge-pressure", "{g}");
+        assert!(e.to_string().contains("absolute pressure"), "{e}");
+    }
+}

@@ -92,7 +92,7 @@ HOSTILE = [
     ({"components": ["water"], "z": [1], "T": "hot", "P": 1e5}, "not-a-number", "T"),
     ({"components": ["water"], "z": [1], "T": "300 furlongs", "P": 1e5}, "unknown-unit", "T"),
     ({"components": ["water"], "z": [1], "T": -5, "P": 1e5}, None, "T"),
-    ({"components": ["water"], "z": [1], "T": 300, "P": "1 barg"}, "unknown-unit", "P"),
+    ({"components": ["water"], "z": [1], "T": 300, "P": "1 barg"}, "gauge-pressure", "P"),
     ({"components": ["water", "ethanol"], "z": [0.5, -0.5], "T": 300, "P": 1e5}, None, "z[1]"),
     ({"components": ["water", "ethanol"], "z": [0.5, 0.6], "T": 300, "P": 1e5}, "mole-fraction-sum", "z"),
     ({"components": ["water"], "z": [1], "T": 300, "P": 1e5, "colour": "blue"}, "unknown-key", "colour"),
