@@ -1808,3 +1808,101 @@ fn long_inputs_give_short_errors() {
     assert_error_output(&out, &["(2000000 characters)"]);
     assert!(out.stderr.len() < 1_000, "{} bytes", out.stderr.len());
 }
+
+/// Spreadsheets read as they are: an .ods workbook (a sheet chosen by name), an .xlsx
+/// workbook, semicolon-separated CSV with decimal commas, and a workbook written with the
+/// results beside the inputs. The check sheet's expected values name their sources in
+/// examples/check_sheet.csv.
+#[test]
+fn workbooks_and_european_csv() {
+    // .ods (tests/fixtures/check_sheet.ods, made by tools/make_ods_fixture.py).
+    let ods = repo("tests/fixtures/check_sheet.ods");
+    let out = bin()
+        .arg("check")
+        .arg(&ods)
+        .args(["--sheet", "checks"])
+        .output()
+        .unwrap();
+    assert_eq!(out.status.code(), Some(0), "{}", String::from_utf8_lossy(&out.stderr));
+    assert!(String::from_utf8(out.stdout).unwrap().contains("23 passed, 0 failed"));
+    let out = bin().arg("check").arg(&ods).args(["--sheet", "nope"]).output().unwrap();
+    assert_error_output(&out, &["--sheet", "'nope'", "notes, checks"]);
+
+    // .xlsx written here from the same rows (numbers as number cells).
+    let dir = tempfile::tempdir().unwrap();
+    let text = std::fs::read_to_string(repo("examples/check_sheet.csv")).unwrap();
+    let mut book = rust_xlsxwriter::Workbook::new();
+    let ws = book.add_worksheet();
+    let mut reader = csv::ReaderBuilder::new()
+        .has_headers(false)
+        .comment(Some(b'#'))
+        .from_reader(text.as_bytes());
+    for (r, rec) in reader.records().enumerate() {
+        for (c, cell) in rec.unwrap().iter().enumerate() {
+            match cell.parse::<f64>() {
+                Ok(x) => ws.write_number(r as u32, c as u16, x).unwrap(),
+                Err(_) if cell.is_empty() => ws,
+                Err(_) => ws.write_string(r as u32, c as u16, cell).unwrap(),
+            };
+        }
+    }
+    let xlsx = dir.path().join("checks.xlsx");
+    book.save(&xlsx).unwrap();
+    let out = bin().arg("check").arg(&xlsx).output().unwrap();
+    assert_eq!(out.status.code(), Some(0), "{}", String::from_utf8_lossy(&out.stderr));
+    assert!(String::from_utf8(out.stdout).unwrap().contains("23 passed, 0 failed"));
+
+    // Semicolon-separated CSV with decimal commas gives the comma file's numbers.
+    let comma = "command,id,components,z,T [degC],P [bar]\nflash,a,benzene;toluene,0.4;0.6,95.5,1.01325\n";
+    let semi = "command;id;components;z;T [degC];P [bar]\r\nflash;a;\"benzene;toluene\";\"0,4;0,6\";95,5;1,01325\r\n";
+    let run = |body: &str, file: &str| {
+        let p = dir.path().join(file);
+        std::fs::write(&p, body).unwrap();
+        let out = bin().args(["flash", "--batch"]).arg(&p).output().unwrap();
+        assert_eq!(out.status.code(), Some(0), "{}", String::from_utf8_lossy(&out.stderr));
+        String::from_utf8(out.stdout).unwrap()
+    };
+    let (a, b) = (run(comma, "comma.csv"), run(semi, "semi.csv"));
+    assert_eq!(a, b);
+    assert!(a.contains("two-phase"), "{a}");
+
+    // A workbook out: the input columns, then the results.
+    let out_path = dir.path().join("results.xlsx");
+    let out = bin()
+        .args(["flash", "--batch"])
+        .arg(repo("examples/batch_flash.csv"))
+        .arg("--output")
+        .arg(&out_path)
+        .output()
+        .unwrap();
+    assert_eq!(out.status.code(), Some(1), "some rows of the example fail on purpose");
+    use calamine::Reader;
+    let mut book: calamine::Xlsx<_> = calamine::open_workbook(&out_path).unwrap();
+    let range = book.worksheet_range("flash").unwrap();
+    let header: Vec<String> = range.rows().next().unwrap().iter().map(|d| d.to_string()).collect();
+    assert_eq!(header[0], "row");
+    assert!(header.contains(&"components".to_string()) && header.contains(&"vapour_fraction".to_string()));
+    assert!(header.iter().position(|h| h == "components") < header.iter().position(|h| h == "vapour_fraction"));
+    assert_eq!(range.rows().count(), 10, "header and nine rows");
+}
+
+/// Row numbers are the file's line numbers, with CRLF line ends and comment lines between
+/// rows.
+#[test]
+fn row_numbers_are_line_numbers() {
+    let dir = tempfile::tempdir().unwrap();
+    let path = dir.path().join("rows.csv");
+    std::fs::write(
+        &path,
+        "# a comment\r\ncommand,components,z,T,P\r\nflash,water,1,300,1e5\r\n# another\r\n# and another\r\nflash,unobtainium,1,300,1e5\r\n",
+    )
+    .unwrap();
+    let out = bin().args(["flash", "--json", "--batch"]).arg(&path).output().unwrap();
+    let rows: Vec<Value> = String::from_utf8(out.stdout)
+        .unwrap()
+        .lines()
+        .map(|l| serde_json::from_str(l).unwrap())
+        .collect();
+    assert_eq!(rows[0]["row"], 3);
+    assert_eq!(rows[1]["row"], 6);
+}

@@ -112,9 +112,28 @@ fn run_row(
     (id, out)
 }
 
-/// Runs the batch and returns the output text and the number of rows that failed.
-pub fn run(lib: &Library, command: Command, name: &str, bytes: &[u8], json_lines: bool) -> CliResult<(String, usize)> {
-    let sheet = sheet::read(name, bytes)?;
+/// What a batch writes.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Format {
+    /// CSV: row, id, the command's output columns, warnings, error.
+    Csv,
+    /// One JSON object a row.
+    JsonLines,
+    /// An .xlsx workbook: the input columns, then the output columns, warnings and error.
+    Workbook,
+}
+
+/// Runs the batch and returns the output bytes and the number of rows that failed.
+pub fn run(
+    lib: &Library,
+    command: Command,
+    name: &str,
+    bytes: &[u8],
+    sheet_name: Option<&str>,
+    format: Format,
+) -> CliResult<(Vec<u8>, usize)> {
+    let json_lines = format == Format::JsonLines;
+    let sheet = sheet::read(name, bytes, sheet_name)?;
     let n = sheet.rows.len();
     let bar = if n >= PROGRESS_ROWS && std::io::stderr().is_terminal() {
         let b = ProgressBar::with_draw_target(Some(n as u64), ProgressDrawTarget::stderr());
@@ -153,7 +172,10 @@ pub fn run(lib: &Library, command: Command, name: &str, bytes: &[u8], json_lines
             out.push_str(&v.to_string());
             out.push('\n');
         }
-        return Ok((out, failed));
+        return Ok((out.into_bytes(), failed));
+    }
+    if format == Format::Workbook {
+        return Ok((workbook(command, &sheet, results)?, failed));
     }
 
     let mut w = csv::WriterBuilder::new().from_writer(Vec::new());
@@ -182,6 +204,70 @@ pub fn run(lib: &Library, command: Command, name: &str, bytes: &[u8], json_lines
     let bytes = w
         .into_inner()
         .map_err(|e| CliError::new(format!("batch output: {e}")))?;
-    let text = String::from_utf8(bytes).map_err(|_| CliError::new("batch output: not UTF-8"))?;
-    Ok((text, failed))
+    Ok((bytes, failed))
+}
+
+/// The batch as an .xlsx workbook: each row's input cells, then its results (numbers as
+/// numbers), warnings and error, under the input header and the output keys.
+fn workbook(
+    command: Command,
+    sheet: &Sheet,
+    results: Vec<(Option<String>, Result<Value, String>)>,
+) -> CliResult<Vec<u8>> {
+    use rust_xlsxwriter::{Format as CellFormat, Workbook};
+    let xl = |e: rust_xlsxwriter::XlsxError| CliError::new(format!("--output workbook: {e}"));
+    let mut book = Workbook::new();
+    let ws = book.add_worksheet();
+    ws.set_name(command.name()).map_err(xl)?;
+    let bold = CellFormat::new().set_bold();
+    let keys = columns(command);
+    let inputs = sheet.columns.len();
+    let mut col = 0u16;
+    ws.write_string_with_format(0, col, "row", &bold).map_err(xl)?;
+    for c in &sheet.columns {
+        col += 1;
+        ws.write_string_with_format(0, col, &c.header, &bold).map_err(xl)?;
+    }
+    for k in keys.iter().chain(&["warnings", "error"]) {
+        col += 1;
+        ws.write_string_with_format(0, col, *k, &bold).map_err(xl)?;
+    }
+    for (i, (row, (_, r))) in sheet.rows.iter().zip(results).enumerate() {
+        let at = u32::try_from(i + 1).map_err(|_| CliError::new("--output workbook: too many rows"))?;
+        ws.write_number(at, 0, row.line as f64).map_err(xl)?;
+        for (j, cell) in row.cells.iter().take(inputs).enumerate() {
+            let c = u16::try_from(j + 1).map_err(|_| CliError::new("--output workbook: too many columns"))?;
+            match cell.trim().parse::<f64>() {
+                Ok(x) if x.is_finite() => ws.write_number(at, c, x).map_err(xl)?,
+                _ => ws.write_string(at, c, cell).map_err(xl)?,
+            };
+        }
+        let first = u16::try_from(inputs + 1).map_err(|_| CliError::new("--output workbook: too many columns"))?;
+        match r {
+            Ok(v) => {
+                for (k, key) in keys.iter().enumerate() {
+                    let c = first + k as u16;
+                    match lookup(&v, key) {
+                        Some(Value::Number(n)) => {
+                            ws.write_number(at, c, n.as_f64().unwrap_or(f64::NAN)).map_err(xl)?;
+                        }
+                        other => {
+                            let text = cell(other);
+                            if !text.is_empty() {
+                                ws.write_string(at, c, &text).map_err(xl)?;
+                            }
+                        }
+                    }
+                }
+                let w = warnings_cell(&v);
+                if !w.is_empty() {
+                    ws.write_string(at, first + keys.len() as u16, &w).map_err(xl)?;
+                }
+            }
+            Err(e) => {
+                ws.write_string(at, first + keys.len() as u16 + 1, &e).map_err(xl)?;
+            }
+        }
+    }
+    book.save_to_buffer().map_err(xl)
 }

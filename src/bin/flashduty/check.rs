@@ -338,8 +338,8 @@ fn run_row(lib: &Library, sheet: &Sheet, row: &sheet::Row) -> RowResult {
 }
 
 /// Checks every row of the sheet (in parallel; results in row order).
-pub fn run(lib: &Library, name: &str, bytes: &[u8]) -> CliResult<Vec<RowResult>> {
-    let sheet = sheet::read(name, bytes)?;
+pub fn run(lib: &Library, name: &str, bytes: &[u8], sheet_name: Option<&str>) -> CliResult<Vec<RowResult>> {
+    let sheet = sheet::read(name, bytes, sheet_name)?;
     if sheet.rows.is_empty() {
         bail!("{name}: the sheet has no rows to check (a check of nothing is not a pass)");
     }

@@ -42,7 +42,7 @@ fn run_text(name: &str, text: &str) {
 /// Reads bytes as a spreadsheet, checks it and runs it as a batch of every command.
 fn run_sheet(bytes: &[u8]) {
     let lib = Library::builtin();
-    match check::run(lib, "fuzz.csv", bytes) {
+    match check::run(lib, "fuzz.csv", bytes, None) {
         Ok(results) => {
             let _ = check::report("fuzz.csv", &results);
             let _ = check::junit("fuzz.csv", &results);
@@ -50,11 +50,19 @@ fn run_sheet(bytes: &[u8]) {
         Err(e) => assert!(!e.message().contains('\n'), "{e}"),
     }
     for command in [Command::Flash, Command::Duty] {
-        if let Err(e) = crate::batch::run(lib, command, "fuzz.csv", bytes, false) {
+        for format in [crate::batch::Format::Csv, crate::batch::Format::Workbook] {
+            if let Err(e) = crate::batch::run(lib, command, "fuzz.csv", bytes, None, format) {
+                assert!(!e.message().contains('\n'), "{e}");
+            }
+        }
+    }
+    // The same bytes as a workbook: refused with one line, never a panic.
+    for name in ["fuzz.xlsx", "fuzz.ods"] {
+        if let Err(e) = sheet::read(name, bytes, None) {
             assert!(!e.message().contains('\n'), "{e}");
         }
     }
-    if let Ok(s) = sheet::read("fuzz.csv", bytes) {
+    if let Ok(s) = sheet::read("fuzz.csv", bytes, None) {
         for row in &s.rows {
             let _ = sheet::case_value(&s.columns, &row.cells);
         }

@@ -92,12 +92,17 @@ struct CaseArgs {
     #[arg(value_name = "CASE", required_unless_present = "batch")]
     case: Option<String>,
 
-    /// Compute every row of a spreadsheet CSV (columns as for 'check') in parallel; writes CSV,
-    /// or JSON lines with --json.
-    #[arg(long, value_name = "FILE.csv", conflicts_with = "case")]
+    /// Compute every row of a spreadsheet (a workbook or CSV; columns as for 'check') in
+    /// parallel; writes CSV, or JSON lines with --json.
+    #[arg(long, value_name = "FILE", conflicts_with = "case")]
     batch: Option<PathBuf>,
 
-    /// Write the batch output to FILE instead of standard output.
+    /// The workbook's sheet to read with --batch (default: the first).
+    #[arg(long, value_name = "NAME", requires = "batch")]
+    sheet: Option<String>,
+
+    /// Write the batch output to FILE instead of standard output; a name ending in .xlsx
+    /// writes a workbook with the results beside the inputs.
     #[arg(long, short, value_name = "FILE", requires = "batch")]
     output: Option<PathBuf>,
 }
@@ -129,9 +134,13 @@ enum Cmd {
     },
     /// Run a design spreadsheet's rows and compare them with its expected values.
     Check {
-        /// The spreadsheet, exported as CSV.
-        #[arg(value_name = "FILE.csv")]
+        /// The spreadsheet: a workbook (.xlsx, .xlsm, .xls, .ods) or CSV (comma- or
+        /// semicolon-separated).
+        #[arg(value_name = "FILE")]
         file: PathBuf,
+        /// The workbook's sheet to read (default: the first).
+        #[arg(long, value_name = "NAME")]
+        sheet: Option<String>,
         /// Also write the results as JUnit XML.
         #[arg(long, value_name = "FILE")]
         junit: Option<PathBuf>,
@@ -175,10 +184,26 @@ fn case_command(cli: &Cli, command: Command, args: &CaseArgs) -> CliResult<u8> {
     let lib = compute::library(&cli.component_files)?;
     if let Some(batch) = &args.batch {
         let bytes = read_file(batch, "--batch")?;
-        let (text, failed) = batch::run(&lib, command, &batch.display().to_string(), &bytes, cli.json)?;
+        let xlsx = args
+            .output
+            .as_ref()
+            .is_some_and(|p| p.extension().is_some_and(|e| e.eq_ignore_ascii_case("xlsx")));
+        let format = match (xlsx, cli.json) {
+            (true, true) => {
+                return Err(CliError::new(
+                    "--output: a .xlsx workbook is written without --json (JSON lines go to a .jsonl file)",
+                ));
+            }
+            (true, false) => batch::Format::Workbook,
+            (false, true) => batch::Format::JsonLines,
+            (false, false) => batch::Format::Csv,
+        };
+        let name = batch.display().to_string();
+        let (out, failed) = batch::run(&lib, command, &name, &bytes, args.sheet.as_deref(), format)?;
         match &args.output {
-            Some(p) => write_file(p, "--output", &text)?,
-            None => print(&text)?,
+            Some(p) => std::fs::write(p, &out)
+                .map_err(|e| CliError::new(format!("--output '{}': cannot write it ({e})", p.display())))?,
+            None => print(&String::from_utf8_lossy(&out))?,
         }
         // Every row is written; the exit code says whether any failed.
         return Ok(u8::from(failed > 0));
@@ -224,11 +249,11 @@ fn run(cli: &Cli) -> CliResult<u8> {
             }
             Ok(0)
         }
-        Cmd::Check { file, junit } => {
+        Cmd::Check { file, sheet, junit } => {
             let lib = compute::library(&cli.component_files)?;
             let name = file.display().to_string();
             let bytes = read_file(file, "check file")?;
-            let results = check::run(&lib, &name, &bytes)?;
+            let results = check::run(&lib, &name, &bytes, sheet.as_deref())?;
             if let Some(j) = junit {
                 write_file(j, "--junit", &check::junit(&name, &results))?;
             }

@@ -11,6 +11,7 @@
 
 use crate::case::{LIST_KEYS, REFERENCE_KEYS, STATE_KEYS, TOP_KEYS, suggest_key};
 use crate::error::{CliError, CliResult, bail};
+use flashduty::units::clip;
 use serde_json::{Map, Value};
 
 /// What a column holds.
@@ -185,47 +186,113 @@ fn column(header: &str) -> CliResult<Column> {
     })
 }
 
-/// Reads a spreadsheet from CSV bytes. `name` is used in messages.
+/// One row of a grid read from a file: its line (CSV) or row number (workbook), its cells,
+/// and why it cannot be used, if it cannot.
+struct GridRow {
+    line: u64,
+    cells: Vec<String>,
+    error: Option<String>,
+}
+
+/// Whether the file name is a workbook calamine reads (by extension).
+pub fn is_workbook(name: &str) -> bool {
+    let lower = name.to_ascii_lowercase();
+    [".xlsx", ".xlsm", ".xlsb", ".xls", ".ods"]
+        .iter()
+        .any(|e| lower.ends_with(e))
+}
+
+/// Reads a spreadsheet: a workbook (`.xlsx`, `.xlsm`, `.xlsb`, `.xls`, `.ods`; the sheet
+/// named `sheet`, else the first) or CSV (comma-separated, or semicolon-separated with
+/// decimal commas, as many European exports are: detected from the header line). `name` is
+/// used in messages. Row numbers are the file's line numbers (CSV; CRLF and comment lines
+/// counted) or the workbook's row numbers.
 ///
 /// # Errors
-/// A file-level problem: no header, a bad or repeated column name. A row that cannot be
-/// read is kept as a [`Row`] with an error, so the other rows still run.
-pub fn read(name: &str, bytes: &[u8]) -> CliResult<Sheet> {
-    let bytes = bytes.strip_prefix(b"\xEF\xBB\xBF".as_slice()).unwrap_or(bytes);
-    let mut reader = csv::ReaderBuilder::new()
-        .has_headers(false)
-        .flexible(true)
-        .comment(Some(b'#'))
-        .trim(csv::Trim::All)
-        .from_reader(bytes);
-    let mut records = reader.byte_records();
-    let header = loop {
-        match records.next() {
-            None => {
-                bail!("{name}: no header line (expected column names such as 'command,components,z,T [degC],P [bar]')")
-            }
-            Some(Err(e)) => bail!("{name}: cannot read the header: {e}"),
-            Some(Ok(r)) if r.iter().all(|c| c.is_empty()) => continue,
-            Some(Ok(r)) => break r,
+/// A file-level problem: no header, a bad or repeated column name, an unreadable workbook
+/// or a sheet that is not there. A row that cannot be read is kept as a [`Row`] with an
+/// error, so the other rows still run.
+pub fn read(name: &str, bytes: &[u8], sheet: Option<&str>) -> CliResult<Sheet> {
+    let (header, grid) = if is_workbook(name) {
+        workbook_grid(name, bytes, sheet)?
+    } else {
+        if sheet.is_some() {
+            bail!("--sheet: '{name}' is CSV, which has one sheet; --sheet is for workbooks (.xlsx, .ods)");
         }
+        csv_grid(name, bytes)?
     };
     let mut columns: Vec<Column> = Vec::with_capacity(header.len());
-    for cell in header.iter() {
-        let text =
-            std::str::from_utf8(cell).map_err(|_| CliError::new(format!("{name}: the header is not UTF-8 text")))?;
+    for text in &header {
         let c = column(text).map_err(|e| e.context(name))?;
         if let Some(prev) = columns.iter().find(|p| p.name == c.name) {
             bail!("{name}: column '{}' repeats column '{}'", c.header, prev.header);
         }
         columns.push(c);
     }
+    let mut rows = Vec::with_capacity(grid.len());
+    for GridRow { line, cells, mut error } in grid {
+        if error.is_none() && cells.len() != columns.len() {
+            error = Some(format!(
+                "{} cells, but the header has {} columns",
+                cells.len(),
+                columns.len()
+            ));
+        }
+        rows.push(Row { line, cells, error });
+    }
+    Ok(Sheet { columns, rows })
+}
+
+const NO_HEADER: &str = "no header line (expected column names such as 'command,components,z,T [degC],P [bar]')";
+
+/// The header and rows of CSV bytes.
+fn csv_grid(name: &str, bytes: &[u8]) -> CliResult<(Vec<String>, Vec<GridRow>)> {
+    let bytes = bytes.strip_prefix(b"\xEF\xBB\xBF".as_slice()).unwrap_or(bytes);
+    let semicolons = semicolon_separated(bytes);
+    let mut reader = csv::ReaderBuilder::new()
+        .has_headers(false)
+        .flexible(true)
+        .comment(Some(b'#'))
+        .delimiter(if semicolons { b';' } else { b',' })
+        .trim(csv::Trim::All)
+        .from_reader(bytes);
+    // The csv crate's own positions skip comment and blank lines; the physical line of each
+    // record comes from a scan of our own, so that rows are numbered as the file's lines.
+    let record_lines = record_lines(bytes);
+    let mut next_line = record_lines.iter().copied();
+    let mut records = reader.byte_records();
+    let header = loop {
+        match records.next() {
+            None => bail!("{name}: {NO_HEADER}"),
+            Some(Err(e)) => bail!("{name}: cannot read the header: {e}"),
+            Some(Ok(r)) if r.iter().all(|c| c.is_empty()) => {
+                next_line.next();
+                continue;
+            }
+            Some(Ok(r)) => {
+                next_line.next();
+                break r;
+            }
+        }
+    };
+    let mut head = Vec::with_capacity(header.len());
+    for cell in header.iter() {
+        let text =
+            std::str::from_utf8(cell).map_err(|_| CliError::new(format!("{name}: the header is not UTF-8 text")))?;
+        head.push(text.to_string());
+    }
+    if !semicolons && head.len() == 1 && head[0].contains(';') {
+        bail!(
+            "{name}: the header is one column holding ';': if the file is semicolon-separated, every header cell must be separated by ';' (and decimals may use commas)"
+        );
+    }
     let mut rows = Vec::new();
     for rec in records {
+        let line = next_line.next().unwrap_or(0);
         let rec = match rec {
             Ok(r) => r,
             Err(e) => {
-                let line = e.position().map_or(0, csv::Position::line);
-                rows.push(Row {
+                rows.push(GridRow {
                     line,
                     cells: Vec::new(),
                     error: Some(format!("cannot read the row: {e}")),
@@ -233,7 +300,6 @@ pub fn read(name: &str, bytes: &[u8]) -> CliResult<Sheet> {
                 continue;
             }
         };
-        let line = rec.position().map_or(0, csv::Position::line);
         if rec.iter().all(|c| c.is_empty()) {
             continue;
         }
@@ -241,26 +307,190 @@ pub fn read(name: &str, bytes: &[u8]) -> CliResult<Sheet> {
         let mut cells = Vec::with_capacity(rec.len());
         for (i, c) in rec.iter().enumerate() {
             match String::from_utf8(c.to_vec()) {
-                Ok(s) => cells.push(s),
+                Ok(s) => cells.push(if semicolons { decimal_points(&s) } else { s }),
                 Err(e) => {
-                    let column = columns
-                        .get(i)
-                        .map_or_else(|| format!("#{}", i + 1), |c| c.header.clone());
-                    error.get_or_insert(format!("column '{column}': the cell is not UTF-8 text"));
+                    let column = head.get(i).map_or_else(|| format!("#{}", i + 1), Clone::clone);
+                    error.get_or_insert(format!("column '{}': the cell is not UTF-8 text", clip(&column)));
                     cells.push(String::from_utf8_lossy(e.as_bytes()).into_owned());
                 }
             }
         }
-        if rec.len() != columns.len() {
-            error = Some(format!(
-                "{} cells, but the header has {} columns",
-                rec.len(),
-                columns.len()
-            ));
-        }
-        rows.push(Row { line, cells, error });
+        rows.push(GridRow { line, cells, error });
     }
-    Ok(Sheet { columns, rows })
+    Ok((head, rows))
+}
+
+/// The 1-based line on which each CSV record starts, as the csv reader yields records
+/// (comment lines, starting with '#', and empty lines are not records; a quoted field may
+/// span lines).
+fn record_lines(bytes: &[u8]) -> Vec<u64> {
+    let mut out = Vec::new();
+    let (mut line, mut i) = (1u64, 0usize);
+    while i < bytes.len() {
+        // At the start of a line, outside any record.
+        let end = bytes[i..]
+            .iter()
+            .position(|&b| b == b'\n')
+            .map_or(bytes.len(), |p| i + p);
+        let content = &bytes[i..end];
+        let content = content.strip_suffix(b"\r").unwrap_or(content);
+        if content.is_empty() || content[0] == b'#' {
+            line += 1;
+            i = end + 1;
+            continue;
+        }
+        out.push(line);
+        // Through the record: newlines inside quotes continue it.
+        let mut quoted = false;
+        while i < bytes.len() {
+            match bytes[i] {
+                b'"' => quoted = !quoted,
+                b'\n' => {
+                    line += 1;
+                    if !quoted {
+                        i += 1;
+                        break;
+                    }
+                }
+                _ => {}
+            }
+            i += 1;
+        }
+    }
+    out
+}
+
+/// Whether CSV bytes are semicolon-separated: the first line that is not blank or a comment
+/// holds more semicolons than commas (outside quotes).
+fn semicolon_separated(bytes: &[u8]) -> bool {
+    let text = String::from_utf8_lossy(&bytes[..bytes.len().min(64 * 1024)]);
+    let Some(line) = text
+        .lines()
+        .map(str::trim)
+        .find(|l| !l.is_empty() && !l.starts_with('#'))
+    else {
+        return false;
+    };
+    let (mut semi, mut comma, mut quoted) = (0, 0, false);
+    for ch in line.chars() {
+        match ch {
+            '"' => quoted = !quoted,
+            ';' if !quoted => semi += 1,
+            ',' if !quoted => comma += 1,
+            _ => {}
+        }
+    }
+    semi > comma
+}
+
+/// A cell of a semicolon-separated file with its decimal commas made points: each item (a
+/// list cell's items are separated by ';' inside quotes) that is a number with a decimal
+/// comma, alone or followed by a unit ("65,5 degC"). Text such as "1,3-butadiene" is left.
+fn decimal_points(cell: &str) -> String {
+    cell.split(';').map(decimal_point).collect::<Vec<_>>().join(";")
+}
+
+fn decimal_point(item: &str) -> String {
+    let t = item.trim();
+    let end = t.find(char::is_whitespace).unwrap_or(t.len());
+    let (number, rest) = t.split_at(end);
+    if number.matches(',').count() == 1 && !number.contains('.') {
+        let candidate = number.replacen(',', ".", 1);
+        let digits_around = number.split(',').all(|part| {
+            part.trim_start_matches(['-', '+'])
+                .chars()
+                .next()
+                .is_some_and(|c| c.is_ascii_digit())
+        });
+        if digits_around && candidate.parse::<f64>().is_ok() {
+            return format!("{candidate}{rest}");
+        }
+    }
+    item.to_string()
+}
+
+/// The header and rows of a workbook's sheet.
+fn workbook_grid(name: &str, bytes: &[u8], sheet: Option<&str>) -> CliResult<(Vec<String>, Vec<GridRow>)> {
+    use calamine::{Data, Reader};
+    let mut book = calamine::open_workbook_auto_from_rs(std::io::Cursor::new(bytes.to_vec()))
+        .map_err(|e| CliError::new(format!("{name}: cannot read the workbook: {e}")))?;
+    let names = book.sheet_names();
+    let chosen = match sheet {
+        Some(s) => names
+            .iter()
+            .find(|n| n.as_str() == s)
+            .or_else(|| names.iter().find(|n| n.eq_ignore_ascii_case(s)))
+            .cloned()
+            .ok_or_else(|| {
+                CliError::new(format!(
+                    "--sheet: '{}' is not a sheet of {name} (its sheets: {})",
+                    clip(s),
+                    names.join(", ")
+                ))
+            })?,
+        None => names
+            .first()
+            .cloned()
+            .ok_or_else(|| CliError::new(format!("{name}: the workbook has no sheets")))?,
+    };
+    let range = book
+        .worksheet_range(&chosen)
+        .map_err(|e| CliError::new(format!("{name}: sheet '{chosen}': {e}")))?;
+    let first_row = range.start().map_or(0, |(r, _)| u64::from(r));
+    let first_col = range.start().map_or(0, |(_, c)| c as usize);
+    let text = |d: &Data| -> Result<String, String> {
+        Ok(match d {
+            Data::Empty => String::new(),
+            Data::String(s) => s.clone(),
+            Data::Float(f) => format!("{f}"),
+            Data::Int(i) => i.to_string(),
+            Data::Bool(b) => b.to_string(),
+            Data::DateTimeIso(s) | Data::DurationIso(s) => s.clone(),
+            Data::DateTime(d) => format!("{}", d.as_f64()),
+            Data::Error(e) => return Err(format!("the cell holds the spreadsheet error {e}")),
+        })
+    };
+    let mut header: Option<Vec<String>> = None;
+    let mut rows = Vec::new();
+    for (i, row) in range.rows().enumerate() {
+        let line = first_row + i as u64 + 1;
+        let mut cells = vec![String::new(); first_col];
+        let mut error = None;
+        for (j, d) in row.iter().enumerate() {
+            match text(d) {
+                Ok(s) => cells.push(s.trim().to_string()),
+                Err(e) => {
+                    error.get_or_insert(format!("column #{}: {e}", first_col + j + 1));
+                    cells.push(String::new());
+                }
+            }
+        }
+        // Trailing empty cells are not columns.
+        while cells.last().is_some_and(String::is_empty) {
+            cells.pop();
+        }
+        if cells.is_empty() || cells[0].starts_with('#') {
+            continue;
+        }
+        match &header {
+            None => {
+                if let Some(e) = error {
+                    bail!("{name}: sheet '{chosen}': the header row {line}: {e}");
+                }
+                header = Some(cells);
+            }
+            Some(h) => {
+                // Cells past the header's columns that are empty were trimmed above; pad the
+                // others out to the header's width.
+                if cells.len() < h.len() {
+                    cells.resize(h.len(), String::new());
+                }
+                rows.push(GridRow { line, cells, error });
+            }
+        }
+    }
+    let header = header.ok_or_else(|| CliError::new(format!("{name}: sheet '{chosen}': {NO_HEADER}")))?;
+    Ok((header, rows))
 }
 
 /// Keys whose cells are always text.
@@ -351,7 +581,7 @@ mod tests {
     fn rows_become_cases() {
         let text =
             "# invented\ncommand,components,z,T [degC],inlet.P [bar],note\nflash,benzene;toluene,0.5;0.5,80,1,12\n";
-        let sheet = read("t.csv", text.as_bytes()).unwrap();
+        let sheet = read("t.csv", text.as_bytes(), None).unwrap();
         assert_eq!(sheet.rows.len(), 1);
         assert_eq!(sheet.rows[0].line, 3);
         let v = case_value(&sheet.columns, &sheet.rows[0].cells).unwrap();
@@ -365,7 +595,7 @@ mod tests {
     #[test]
     fn bad_rows_are_kept() {
         let text = "command,z\nflash,1\nflash,1,2\n";
-        let sheet = read("t.csv", text.as_bytes()).unwrap();
+        let sheet = read("t.csv", text.as_bytes(), None).unwrap();
         assert_eq!(sheet.rows.len(), 2);
         assert!(sheet.rows[1].error.is_some());
     }
