@@ -5,12 +5,12 @@ use crate::case::{Command, parse_case};
 use crate::check::lookup;
 use crate::compute;
 use crate::error::{CliError, CliResult};
-use crate::sheet::{self, Role, Sheet};
+use crate::sheet::{self, Column, Role};
 use flashduty::library::Library;
 use indicatif::{ProgressBar, ProgressDrawTarget, ProgressStyle};
 use rayon::prelude::*;
 use serde_json::{Value, json};
-use std::io::IsTerminal;
+use std::io::{IsTerminal, Write};
 
 /// Rows above which a progress bar is shown (when stderr is a terminal).
 const PROGRESS_ROWS: usize = 200;
@@ -83,16 +83,16 @@ fn warnings_cell(v: &Value) -> String {
 
 fn run_row(
     lib: &Library,
-    sheet: &Sheet,
+    columns: &[Column],
     command: Command,
     row: &sheet::Row,
-) -> (Option<String>, Result<Value, String>) {
-    let id = row.cell(&sheet.columns, &Role::Id).map(str::to_string);
+) -> RowResult {
+    let id = row.cell(columns, &Role::Id).map(str::to_string);
     if let Some(e) = &row.error {
         return (id, Err(e.clone()));
     }
     let cells = &row.cells;
-    if let Some(c) = row.cell(&sheet.columns, &Role::Command)
+    if let Some(c) = row.cell(columns, &Role::Command)
         && Command::from_name(c) != Some(command)
     {
         return (
@@ -104,7 +104,7 @@ fn run_row(
             )),
         );
     }
-    let out = sheet::case_value(&sheet.columns, cells)
+    let out = sheet::case_value(columns, cells)
         .and_then(|v| Ok(parse_case(&v, command)?))
         .and_then(|case| Ok(compute::run(lib, command, &case, None)?))
         .map(|o| o.to_json())
@@ -123,151 +123,246 @@ pub enum Format {
     Workbook,
 }
 
-/// Runs the batch and returns the output bytes and the number of rows that failed.
+/// A row's id and its outcome's JSON (or why it failed).
+type RowResult = (Option<String>, Result<Value, String>);
+
+/// Rows computed at a time: each chunk is run in parallel and written before the next is
+/// read, so memory stays flat whatever the number of rows.
+const CHUNK_ROWS: usize = 4096;
+
+/// A write error: `None` for a closed pipe (`| head`), which ends the output quietly.
+fn io_error(e: &std::io::Error) -> Option<CliError> {
+    (e.kind() != std::io::ErrorKind::BrokenPipe).then(|| CliError::new(format!("batch output: {e}")))
+}
+
+fn xlsx_error(e: rust_xlsxwriter::XlsxError) -> CliError {
+    CliError::new(format!("--output workbook: {e}"))
+}
+
+/// Runs the batch, writing rows in input order to `out` as they are computed (a chunk of
+/// [`CHUNK_ROWS`] at a time, in parallel; a workbook is written whole at the end), and
+/// returns the number of rows that failed.
 pub fn run(
     lib: &Library,
     command: Command,
     name: &str,
-    bytes: &[u8],
+    input: Box<dyn std::io::BufRead + '_>,
     sheet_name: Option<&str>,
     format: Format,
-) -> CliResult<(Vec<u8>, usize)> {
-    let json_lines = format == Format::JsonLines;
-    let sheet = sheet::read(name, bytes, sheet_name)?;
-    let n = sheet.rows.len();
-    let bar = if n >= PROGRESS_ROWS && std::io::stderr().is_terminal() {
-        let b = ProgressBar::with_draw_target(Some(n as u64), ProgressDrawTarget::stderr());
-        if let Ok(style) = ProgressStyle::with_template("{bar:40} {pos}/{len} rows ({eta} left)") {
+    out: &mut dyn Write,
+) -> CliResult<usize> {
+    let stream = sheet::stream(name, input, sheet_name)?;
+    let cols = stream.columns;
+    let mut rows = stream.rows;
+    let bar = if std::io::stderr().is_terminal() {
+        let b = ProgressBar::with_draw_target(None, ProgressDrawTarget::stderr());
+        if let Ok(style) = ProgressStyle::with_template("{spinner} {pos} rows ({per_sec})") {
             b.set_style(style);
         }
         b
     } else {
         ProgressBar::hidden()
     };
-    let results: Vec<(Option<String>, Result<Value, String>)> = sheet
-        .rows
-        .par_iter()
-        .map(|r| {
-            let out = run_row(lib, &sheet, command, r);
-            bar.inc(1);
-            out
-        })
-        .collect();
-    bar.finish_and_clear();
-    let failed = results.iter().filter(|(_, r)| r.is_err()).count();
-
-    if json_lines {
-        let mut out = String::new();
-        for (row, (id, r)) in sheet.rows.iter().zip(results) {
-            let mut v = match r {
-                Ok(v) => v,
-                Err(e) => json!({"command": command.name(), "error": e}),
-            };
-            if let Value::Object(m) = &mut v {
-                m.insert("row".into(), json!(row.line));
-                m.insert("id".into(), json!(id));
-                m.entry("error").or_insert(Value::Null);
-                m.remove("caution");
-            }
-            out.push_str(&v.to_string());
-            out.push('\n');
-        }
-        return Ok((out.into_bytes(), failed));
-    }
-    if format == Format::Workbook {
-        return Ok((workbook(command, &sheet, results)?, failed));
-    }
-
-    let mut w = csv::WriterBuilder::new().from_writer(Vec::new());
     let keys = columns(command);
-    let mut header = vec!["row", "id"];
-    header.extend_from_slice(keys);
-    header.extend_from_slice(&["warnings", "error"]);
-    let io = |e: csv::Error| CliError::new(format!("batch output: {e}"));
-    w.write_record(&header).map_err(io)?;
-    for (row, (id, r)) in sheet.rows.iter().zip(results) {
-        let mut record = vec![row.line.to_string(), id.unwrap_or_default()];
-        match r {
-            Ok(v) => {
-                record.extend(keys.iter().map(|k| cell(lookup(&v, k))));
-                record.push(warnings_cell(&v));
-                record.push(String::new());
-            }
-            Err(e) => {
-                record.extend(keys.iter().map(|_| String::new()));
-                record.push(String::new());
-                record.push(e);
-            }
+    let mut book = match format {
+        Format::Workbook => Some(workbook_start(command, &cols, keys)?),
+        _ => None,
+    };
+    let emit = |out: &mut dyn Write, bytes: &[u8]| -> Result<(), Option<CliError>> {
+        out.write_all(bytes).map_err(|e| io_error(&e))
+    };
+    let header = if format == Format::Csv {
+        let mut header = vec!["row", "id"];
+        header.extend_from_slice(keys);
+        header.extend_from_slice(&["warnings", "error"]);
+        csv_line(&header)
+    } else {
+        Vec::new()
+    };
+    let mut failed = 0;
+    let mut done = 0;
+    let mut written = emit(out, &header);
+    while written.is_ok() {
+        let chunk: Vec<sheet::Row> = rows.by_ref().take(CHUNK_ROWS).collect();
+        if chunk.is_empty() {
+            break;
         }
-        w.write_record(&record).map_err(io)?;
+        // Each row is computed and, for text output, formatted in parallel; the rows are
+        // then written in input order.
+        let line = |row: &sheet::Row, result: RowResult| match format {
+            Format::JsonLines => json_line(command, row, result),
+            _ => csv_row(keys, row, result),
+        };
+        let computed: Vec<(bool, Result<Vec<u8>, RowResult>)> = chunk
+            .par_iter()
+            .map(|r| {
+                let result = run_row(lib, &cols, command, r);
+                let failed = result.1.is_err();
+                // A workbook is filled on this thread; text is formatted here, in parallel.
+                (
+                    failed,
+                    if book.is_some() {
+                        Err(result)
+                    } else {
+                        Ok(line(r, result))
+                    },
+                )
+            })
+            .collect();
+        done += chunk.len();
+        if done >= PROGRESS_ROWS {
+            bar.set_position(done as u64);
+        }
+        failed += computed.iter().filter(|(f, _)| *f).count();
+        written = match &mut book {
+            Some(b) => {
+                let results = computed.into_iter().filter_map(|(_, r)| r.err()).collect();
+                workbook_rows(b, keys, cols.len(), &chunk, results).map_err(Some)
+            }
+            None => {
+                let text: Vec<u8> = computed.into_iter().filter_map(|(_, r)| r.ok()).flatten().collect();
+                emit(out, &text)
+            }
+        };
     }
-    let bytes = w
-        .into_inner()
-        .map_err(|e| CliError::new(format!("batch output: {e}")))?;
-    Ok((bytes, failed))
+    bar.finish_and_clear();
+    if written.is_ok()
+        && let Some(mut b) = book
+    {
+        let bytes = b.book.save_to_buffer().map_err(xlsx_error)?;
+        written = emit(out, &bytes);
+    }
+    if written.is_ok() {
+        written = out.flush().map_err(|e| io_error(&e));
+    }
+    match written {
+        Err(Some(e)) => Err(e),
+        _ => Ok(failed),
+    }
 }
 
-/// The batch as an .xlsx workbook: each row's input cells, then its results (numbers as
-/// numbers), warnings and error, under the input header and the output keys.
-fn workbook(
-    command: Command,
-    sheet: &Sheet,
-    results: Vec<(Option<String>, Result<Value, String>)>,
-) -> CliResult<Vec<u8>> {
+/// One CSV line of `cells`.
+fn csv_line(cells: &[&str]) -> Vec<u8> {
+    let mut w = csv::WriterBuilder::new().from_writer(Vec::new());
+    let _ = w.write_record(cells);
+    w.into_inner().unwrap_or_default()
+}
+
+/// One row as a CSV line.
+fn csv_row(keys: &[&str], row: &sheet::Row, (id, r): RowResult) -> Vec<u8> {
+    let mut record = vec![row.line.to_string(), id.unwrap_or_default()];
+    match r {
+        Ok(v) => {
+            record.extend(keys.iter().map(|k| cell(lookup(&v, k))));
+            record.push(warnings_cell(&v));
+            record.push(String::new());
+        }
+        Err(e) => {
+            record.extend(keys.iter().map(|_| String::new()));
+            record.push(String::new());
+            record.push(e);
+        }
+    }
+    let mut w = csv::WriterBuilder::new().buffer_capacity(256).from_writer(Vec::new());
+    let _ = w.write_record(&record);
+    w.into_inner().unwrap_or_default()
+}
+
+/// One row as a JSON line.
+fn json_line(command: Command, row: &sheet::Row, (id, r): RowResult) -> Vec<u8> {
+    let mut v = match r {
+        Ok(v) => v,
+        Err(e) => json!({"command": command.name(), "error": e}),
+    };
+    if let Value::Object(m) = &mut v {
+        m.insert("row".into(), json!(row.line));
+        m.insert("id".into(), json!(id));
+        m.entry("error").or_insert(Value::Null);
+        m.remove("caution");
+    }
+    let mut line = v.to_string().into_bytes();
+    line.push(b'\n');
+    line
+}
+
+/// An .xlsx workbook being filled chunk by chunk (rust_xlsxwriter keeps it in memory until
+/// it is saved).
+struct Book {
+    book: rust_xlsxwriter::Workbook,
+    next_row: u32,
+}
+
+/// The workbook's header: `row`, the input columns as given, the output keys, `warnings`
+/// and `error`, in a sheet named after the command.
+fn workbook_start(command: Command, cols: &[Column], keys: &[&str]) -> CliResult<Book> {
     use rust_xlsxwriter::{Format as CellFormat, Workbook};
-    let xl = |e: rust_xlsxwriter::XlsxError| CliError::new(format!("--output workbook: {e}"));
     let mut book = Workbook::new();
     let ws = book.add_worksheet();
-    ws.set_name(command.name()).map_err(xl)?;
+    ws.set_name(command.name()).map_err(xlsx_error)?;
     let bold = CellFormat::new().set_bold();
-    let keys = columns(command);
-    let inputs = sheet.columns.len();
-    let mut col = 0u16;
-    ws.write_string_with_format(0, col, "row", &bold).map_err(xl)?;
-    for c in &sheet.columns {
-        col += 1;
-        ws.write_string_with_format(0, col, &c.header, &bold).map_err(xl)?;
+    let heads: Vec<&str> = std::iter::once("row")
+        .chain(cols.iter().map(|c| c.header.as_str()))
+        .chain(keys.iter().copied())
+        .chain(["warnings", "error"])
+        .collect();
+    for (c, h) in heads.iter().enumerate() {
+        let c = u16::try_from(c).map_err(|_| CliError::new("--output workbook: too many columns"))?;
+        ws.write_string_with_format(0, c, *h, &bold).map_err(xlsx_error)?;
     }
-    for k in keys.iter().chain(&["warnings", "error"]) {
-        col += 1;
-        ws.write_string_with_format(0, col, *k, &bold).map_err(xl)?;
-    }
-    for (i, (row, (_, r))) in sheet.rows.iter().zip(results).enumerate() {
-        let at = u32::try_from(i + 1).map_err(|_| CliError::new("--output workbook: too many rows"))?;
-        ws.write_number(at, 0, row.line as f64).map_err(xl)?;
-        for (j, cell) in row.cells.iter().take(inputs).enumerate() {
-            let c = u16::try_from(j + 1).map_err(|_| CliError::new("--output workbook: too many columns"))?;
-            match cell.trim().parse::<f64>() {
-                Ok(x) if x.is_finite() => ws.write_number(at, c, x).map_err(xl)?,
-                _ => ws.write_string(at, c, cell).map_err(xl)?,
+    Ok(Book { book, next_row: 1 })
+}
+
+/// A chunk of rows into the workbook: each row's input cells (numbers as numbers), then
+/// its results, warnings and error.
+fn workbook_rows(
+    b: &mut Book,
+    keys: &[&str],
+    inputs: usize,
+    chunk: &[sheet::Row],
+    results: Vec<RowResult>,
+) -> CliResult<()> {
+    let too_many = || CliError::new("--output workbook: more rows or columns than a worksheet holds");
+    let ws = b.book.worksheet_from_index(0).map_err(xlsx_error)?;
+    let first = u16::try_from(inputs + 1).map_err(|_| too_many())?;
+    let key_count = u16::try_from(keys.len()).map_err(|_| too_many())?;
+    for (row, (_, r)) in chunk.iter().zip(results) {
+        let at = b.next_row;
+        b.next_row = b.next_row.checked_add(1).ok_or_else(too_many)?;
+        ws.write_number(at, 0, row.line as f64).map_err(xlsx_error)?;
+        for (j, text) in row.cells.iter().take(inputs).enumerate() {
+            let c = u16::try_from(j + 1).map_err(|_| too_many())?;
+            match text.trim().parse::<f64>() {
+                Ok(x) if x.is_finite() => ws.write_number(at, c, x).map_err(xlsx_error)?,
+                _ => ws.write_string(at, c, text).map_err(xlsx_error)?,
             };
         }
-        let first = u16::try_from(inputs + 1).map_err(|_| CliError::new("--output workbook: too many columns"))?;
         match r {
             Ok(v) => {
                 for (k, key) in keys.iter().enumerate() {
                     let c = first + k as u16;
                     match lookup(&v, key) {
                         Some(Value::Number(n)) => {
-                            ws.write_number(at, c, n.as_f64().unwrap_or(f64::NAN)).map_err(xl)?;
+                            if let Some(x) = n.as_f64() {
+                                ws.write_number(at, c, x).map_err(xlsx_error)?;
+                            }
                         }
                         other => {
                             let text = cell(other);
                             if !text.is_empty() {
-                                ws.write_string(at, c, &text).map_err(xl)?;
+                                ws.write_string(at, c, &text).map_err(xlsx_error)?;
                             }
                         }
                     }
                 }
                 let w = warnings_cell(&v);
                 if !w.is_empty() {
-                    ws.write_string(at, first + keys.len() as u16, &w).map_err(xl)?;
+                    ws.write_string(at, first + key_count, &w).map_err(xlsx_error)?;
                 }
             }
             Err(e) => {
-                ws.write_string(at, first + keys.len() as u16 + 1, &e).map_err(xl)?;
+                ws.write_string(at, first + key_count + 1, &e).map_err(xlsx_error)?;
             }
         }
     }
-    book.save_to_buffer().map_err(xl)
+    Ok(())
 }

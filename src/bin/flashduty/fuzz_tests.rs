@@ -51,7 +51,8 @@ fn run_sheet(bytes: &[u8]) {
     }
     for command in [Command::Flash, Command::Duty] {
         for format in [crate::batch::Format::Csv, crate::batch::Format::Workbook] {
-            if let Err(e) = crate::batch::run(lib, command, "fuzz.csv", bytes, None, format) {
+            if let Err(e) = crate::batch::run(lib, command, "fuzz.csv", Box::new(bytes), None, format, &mut Vec::new())
+            {
                 assert!(!e.message().contains('\n'), "{e}");
             }
         }

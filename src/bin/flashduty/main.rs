@@ -183,7 +183,10 @@ fn write_file(path: &Path, what: &str, text: &str) -> CliResult<()> {
 fn case_command(cli: &Cli, command: Command, args: &CaseArgs) -> CliResult<u8> {
     let lib = compute::library(&cli.component_files)?;
     if let Some(batch) = &args.batch {
-        let bytes = read_file(batch, "--batch")?;
+        // The file is read as the rows are computed (CSV), not whole.
+        let file = std::fs::File::open(batch)
+            .map_err(|e| CliError::new(format!("--batch '{}': cannot read it ({e})", batch.display())))?;
+        let input = || Box::new(std::io::BufReader::with_capacity(1 << 16, file));
         let xlsx = args
             .output
             .as_ref()
@@ -199,12 +202,20 @@ fn case_command(cli: &Cli, command: Command, args: &CaseArgs) -> CliResult<u8> {
             (false, false) => batch::Format::Csv,
         };
         let name = batch.display().to_string();
-        let (out, failed) = batch::run(&lib, command, &name, &bytes, args.sheet.as_deref(), format)?;
-        match &args.output {
-            Some(p) => std::fs::write(p, &out)
-                .map_err(|e| CliError::new(format!("--output '{}': cannot write it ({e})", p.display())))?,
-            None => print(&String::from_utf8_lossy(&out))?,
-        }
+        let sheet = args.sheet.as_deref();
+        // Rows are written as they are computed, a chunk at a time.
+        let failed = match &args.output {
+            Some(p) => {
+                let file = std::fs::File::create(p)
+                    .map_err(|e| CliError::new(format!("--output '{}': cannot write it ({e})", p.display())))?;
+                let mut w = std::io::BufWriter::new(file);
+                batch::run(&lib, command, &name, input(), sheet, format, &mut w)?
+            }
+            None => {
+                let mut w = std::io::BufWriter::new(std::io::stdout().lock());
+                batch::run(&lib, command, &name, input(), sheet, format, &mut w)?
+            }
+        };
         // Every row is written; the exit code says whether any failed.
         return Ok(u8::from(failed > 0));
     }

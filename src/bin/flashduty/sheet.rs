@@ -13,6 +13,7 @@ use crate::case::{LIST_KEYS, REFERENCE_KEYS, STATE_KEYS, TOP_KEYS, suggest_key};
 use crate::error::{CliError, CliResult, bail};
 use flashduty::units::clip;
 use serde_json::{Map, Value};
+use std::io::{BufRead, Read};
 
 /// What a column holds.
 #[derive(Debug, Clone, PartialEq, Eq)]
@@ -213,13 +214,41 @@ pub fn is_workbook(name: &str) -> bool {
 /// or a sheet that is not there. A row that cannot be read is kept as a [`Row`] with an
 /// error, so the other rows still run.
 pub fn read(name: &str, bytes: &[u8], sheet: Option<&str>) -> CliResult<Sheet> {
-    let (header, grid) = if is_workbook(name) {
-        workbook_grid(name, bytes, sheet)?
+    let stream = stream(name, Box::new(bytes), sheet)?;
+    Ok(Sheet {
+        rows: stream.rows.collect(),
+        columns: stream.columns,
+    })
+}
+
+/// A spreadsheet read row by row: the columns, and the rows as they are parsed (CSV is
+/// parsed lazily, so a batch holds only the rows it is computing; a workbook is in memory
+/// already).
+pub struct SheetStream<'a> {
+    /// The columns.
+    pub columns: Vec<Column>,
+    /// The rows, in file order.
+    pub rows: Box<dyn Iterator<Item = Row> + 'a>,
+}
+
+/// [`read`], row by row, from a reader: CSV is read as it is parsed, so neither the file nor
+/// its rows are held whole (a workbook is read whole, as the workbook reader needs).
+///
+/// # Errors
+/// As [`read`], for the file-level problems (found before any row).
+pub fn stream<'a>(name: &str, mut input: Box<dyn BufRead + 'a>, sheet: Option<&str>) -> CliResult<SheetStream<'a>> {
+    let (header, grid): (Vec<String>, Box<dyn Iterator<Item = GridRow> + 'a>) = if is_workbook(name) {
+        let mut bytes = Vec::new();
+        input
+            .read_to_end(&mut bytes)
+            .map_err(|e| CliError::new(format!("{name}: cannot read it ({e})")))?;
+        let (h, rows) = workbook_grid(name, &bytes, sheet)?;
+        (h, Box::new(rows.into_iter()))
     } else {
         if sheet.is_some() {
             bail!("--sheet: '{name}' is CSV, which has one sheet; --sheet is for workbooks (.xlsx, .ods)");
         }
-        csv_grid(name, bytes)?
+        csv_grid(name, input)?
     };
     let mut columns: Vec<Column> = Vec::with_capacity(header.len());
     for text in &header {
@@ -229,49 +258,60 @@ pub fn read(name: &str, bytes: &[u8], sheet: Option<&str>) -> CliResult<Sheet> {
         }
         columns.push(c);
     }
-    let mut rows = Vec::with_capacity(grid.len());
-    for GridRow { line, cells, mut error } in grid {
-        if error.is_none() && cells.len() != columns.len() {
-            error = Some(format!(
-                "{} cells, but the header has {} columns",
-                cells.len(),
-                columns.len()
-            ));
+    let width = columns.len();
+    let rows = grid.map(move |GridRow { line, cells, mut error }| {
+        if error.is_none() && cells.len() != width {
+            error = Some(format!("{} cells, but the header has {width} columns", cells.len()));
         }
-        rows.push(Row { line, cells, error });
-    }
-    Ok(Sheet { columns, rows })
+        Row { line, cells, error }
+    });
+    Ok(SheetStream {
+        columns,
+        rows: Box::new(rows),
+    })
 }
 
 const NO_HEADER: &str = "no header line (expected column names such as 'command,components,z,T [degC],P [bar]')";
 
-/// The header and rows of CSV bytes.
-fn csv_grid(name: &str, bytes: &[u8]) -> CliResult<(Vec<String>, Vec<GridRow>)> {
-    let bytes = bytes.strip_prefix(b"\xEF\xBB\xBF".as_slice()).unwrap_or(bytes);
-    let semicolons = semicolon_separated(bytes);
-    let mut reader = csv::ReaderBuilder::new()
+/// The header and the rows (parsed lazily, as the input is read) of CSV.
+fn csv_grid<'a>(
+    name: &str,
+    mut input: Box<dyn BufRead + 'a>,
+) -> CliResult<(Vec<String>, Box<dyn Iterator<Item = GridRow> + 'a>)> {
+    let read_error = |e: std::io::Error| CliError::new(format!("{name}: cannot read it ({e})"));
+    // A byte-order mark, and the delimiter from the first line (in the first buffer).
+    let first = input.fill_buf().map_err(read_error)?;
+    let bom = first.starts_with(b"\xEF\xBB\xBF");
+    let semicolons = semicolon_separated(if bom { &first[3..] } else { first });
+    if bom {
+        input.consume(3);
+    }
+    let starts = std::rc::Rc::new(std::cell::RefCell::new(std::collections::VecDeque::new()));
+    let filtered = RecordLines {
+        inner: input,
+        buf: Vec::new(),
+        pos: 0,
+        line: 0,
+        quoted: false,
+        starts: std::rc::Rc::clone(&starts),
+    };
+    let reader = csv::ReaderBuilder::new()
         .has_headers(false)
         .flexible(true)
-        .comment(Some(b'#'))
         .delimiter(if semicolons { b';' } else { b',' })
         .trim(csv::Trim::All)
-        .from_reader(bytes);
-    // The csv crate's own positions skip comment and blank lines; the physical line of each
-    // record comes from a scan of our own, so that rows are numbered as the file's lines.
-    let record_lines = record_lines(bytes);
-    let mut next_line = record_lines.iter().copied();
-    let mut records = reader.byte_records();
+        .from_reader(filtered);
+    let next_line = move || starts.borrow_mut().pop_front().unwrap_or(0);
+    let mut records = reader.into_byte_records();
     let header = loop {
         match records.next() {
             None => bail!("{name}: {NO_HEADER}"),
             Some(Err(e)) => bail!("{name}: cannot read the header: {e}"),
-            Some(Ok(r)) if r.iter().all(|c| c.is_empty()) => {
-                next_line.next();
-                continue;
-            }
             Some(Ok(r)) => {
-                next_line.next();
-                break r;
+                next_line();
+                if !r.iter().all(|c| c.is_empty()) {
+                    break r;
+                }
             }
         }
     };
@@ -286,22 +326,21 @@ fn csv_grid(name: &str, bytes: &[u8]) -> CliResult<(Vec<String>, Vec<GridRow>)> 
             "{name}: the header is one column holding ';': if the file is semicolon-separated, every header cell must be separated by ';' (and decimals may use commas)"
         );
     }
-    let mut rows = Vec::new();
-    for rec in records {
-        let line = next_line.next().unwrap_or(0);
+    let names = head.clone();
+    let rows = records.filter_map(move |rec| {
+        let line = next_line();
         let rec = match rec {
             Ok(r) => r,
             Err(e) => {
-                rows.push(GridRow {
+                return Some(GridRow {
                     line,
                     cells: Vec::new(),
                     error: Some(format!("cannot read the row: {e}")),
                 });
-                continue;
             }
         };
         if rec.iter().all(|c| c.is_empty()) {
-            continue;
+            return None;
         }
         let mut error = None;
         let mut cells = Vec::with_capacity(rec.len());
@@ -309,55 +348,61 @@ fn csv_grid(name: &str, bytes: &[u8]) -> CliResult<(Vec<String>, Vec<GridRow>)> 
             match String::from_utf8(c.to_vec()) {
                 Ok(s) => cells.push(if semicolons { decimal_points(&s) } else { s }),
                 Err(e) => {
-                    let column = head.get(i).map_or_else(|| format!("#{}", i + 1), Clone::clone);
+                    let column = names.get(i).map_or_else(|| format!("#{}", i + 1), Clone::clone);
                     error.get_or_insert(format!("column '{}': the cell is not UTF-8 text", clip(&column)));
                     cells.push(String::from_utf8_lossy(e.as_bytes()).into_owned());
                 }
             }
         }
-        rows.push(GridRow { line, cells, error });
-    }
-    Ok((head, rows))
+        Some(GridRow { line, cells, error })
+    });
+    Ok((head, Box::new(rows)))
 }
 
-/// The 1-based line on which each CSV record starts, as the csv reader yields records
-/// (comment lines, starting with '#', and empty lines are not records; a quoted field may
-/// span lines).
-fn record_lines(bytes: &[u8]) -> Vec<u64> {
-    let mut out = Vec::new();
-    let (mut line, mut i) = (1u64, 0usize);
-    while i < bytes.len() {
-        // At the start of a line, outside any record.
-        let end = bytes[i..]
-            .iter()
-            .position(|&b| b == b'\n')
-            .map_or(bytes.len(), |p| i + p);
-        let content = &bytes[i..end];
-        let content = content.strip_suffix(b"\r").unwrap_or(content);
-        if content.is_empty() || content[0] == b'#' {
-            line += 1;
-            i = end + 1;
-            continue;
-        }
-        out.push(line);
-        // Through the record: newlines inside quotes continue it.
-        let mut quoted = false;
-        while i < bytes.len() {
-            match bytes[i] {
-                b'"' => quoted = !quoted,
-                b'\n' => {
-                    line += 1;
-                    if !quoted {
-                        i += 1;
-                        break;
-                    }
-                }
-                _ => {}
+/// The CSV text with comment lines (starting with '#') and empty lines left out between
+/// records, as the csv reader would skip them, noting the file line on which each record
+/// starts (a quoted field may span lines): the csv crate's own positions skip those lines,
+/// so rows are numbered by this. Reads a line at a time.
+struct RecordLines<'a> {
+    inner: Box<dyn BufRead + 'a>,
+    buf: Vec<u8>,
+    pos: usize,
+    /// File lines read so far.
+    line: u64,
+    /// Whether the text read so far ends inside a quoted field.
+    quoted: bool,
+    /// The file line of each record start not yet taken.
+    starts: std::rc::Rc<std::cell::RefCell<std::collections::VecDeque<u64>>>,
+}
+
+impl Read for RecordLines<'_> {
+    fn read(&mut self, out: &mut [u8]) -> std::io::Result<usize> {
+        while self.pos >= self.buf.len() {
+            self.buf.clear();
+            self.pos = 0;
+            if self.inner.read_until(b'\n', &mut self.buf)? == 0 {
+                return Ok(0);
             }
-            i += 1;
+            self.line += 1;
+            if !self.quoted {
+                let content = self.buf.strip_suffix(b"\n").unwrap_or(&self.buf);
+                let content = content.strip_suffix(b"\r").unwrap_or(content);
+                if content.is_empty() || content[0] == b'#' {
+                    self.buf.clear();
+                    continue;
+                }
+                self.starts.borrow_mut().push_back(self.line);
+            }
+            let quotes = self.buf.iter().filter(|&&b| b == b'"').count();
+            if quotes % 2 == 1 {
+                self.quoted = !self.quoted;
+            }
         }
+        let n = out.len().min(self.buf.len() - self.pos);
+        out[..n].copy_from_slice(&self.buf[self.pos..self.pos + n]);
+        self.pos += n;
+        Ok(n)
     }
-    out
 }
 
 /// Whether CSV bytes are semicolon-separated: the first line that is not blank or a comment
