@@ -25,7 +25,9 @@ impl<K: KValueModel, H: PhaseEnthalpyModel> Calc<'_, K, H> {
     /// (`t_bub` to `t_dew`, wider than [`WIDE_TWO_PHASE_K`]) and the vapour branch above
     /// `t_dew` are searched, each cut at the critical temperatures inside it
     /// ([`crossings`]); the liquid's enthalpy rises with T. Nothing is searched unless the
-    /// enthalpy at some Tc is below the target.
+    /// enthalpy at some Tc is below the target (every case with more than one outlet has
+    /// such a dip: a two-phase enthalpy that falls into the dew point keeps falling above
+    /// it, into the cusp of the Tc that makes it fall).
     pub fn outlet_uniqueness(
         &self,
         target: f64,
@@ -50,7 +52,8 @@ impl<K: KValueModel, H: PhaseEnthalpyModel> Calc<'_, K, H> {
         cusps.sort_by(|a, b| a.0.total_cmp(&b.0));
         let (inside, above) = cusps.split_at(cusps.partition_point(|c| c.0 <= t_dew));
         // A narrow two-phase region is solved on β, not searched on T.
-        let inside = if t_dew - t_bub > WIDE_TWO_PHASE_K { inside } else { &[] };
+        let wide = t_dew - t_bub > WIDE_TWO_PHASE_K;
+        let inside = if wide { inside } else { &[] };
         let mut failed = false;
         let mut mixture = |t: f64| match self.tp_into(t, p, scratch) {
             Ok(()) => {
@@ -74,7 +77,11 @@ impl<K: KValueModel, H: PhaseEnthalpyModel> Calc<'_, K, H> {
             .copied();
         let (tc, index) = dip?;
         let mut outlets = Vec::new();
-        if !inside.is_empty() {
+        // The two-phase region is searched whenever there is a dip anywhere, with or without
+        // a critical temperature inside it: a Tc just above the dew point makes the
+        // two-phase enthalpy peak and fall into the dew point (the dew-point corner), so a
+        // duty met in the vapour above the dip may also be met twice below the dew point.
+        if wide {
             let cuts: Vec<f64> = inside.iter().map(|c| c.0).collect();
             crossings(&mut mixture, t_bub, t_dew, &cuts, &mut outlets);
         }
