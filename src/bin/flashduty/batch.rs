@@ -81,12 +81,7 @@ fn warnings_cell(v: &Value) -> String {
         .unwrap_or_default()
 }
 
-fn run_row(
-    lib: &Library,
-    columns: &[Column],
-    command: Command,
-    row: &sheet::Row,
-) -> RowResult {
+fn run_row(lib: &Library, columns: &[Column], command: Command, row: &sheet::Row) -> RowResult {
     let id = row.cell(columns, &Role::Id).map(str::to_string);
     if let Some(e) = &row.error {
         return (id, Err(e.clone()));
