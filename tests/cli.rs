@@ -1938,3 +1938,37 @@ fn long_batches_stream_in_order() {
         }
     }
 }
+
+/// A check whose expected column names a unit shows computed, expected, deviation and
+/// allowed in that unit, in the text, JSON and JUnit reports. Water boils at 99.97 °C at
+/// 1 atm (IAPWS-IF97); the second row expects 99 °C and fails by about 1 K.
+#[test]
+fn check_reports_in_the_headers_unit() {
+    let dir = tempfile::tempdir().unwrap();
+    let path = dir.path().join("c.csv");
+    std::fs::write(
+        &path,
+        "command,components,z,P,expect.T_K [degF],tol.T_K [degC]\nbubble,water,1,1 atm,211.95,0.25\nbubble,water,1,1 atm,210.2,0.25\n",
+    )
+    .unwrap();
+    let junit = dir.path().join("j.xml");
+    let out = bin()
+        .arg("check")
+        .arg(&path)
+        .arg("--junit")
+        .arg(&junit)
+        .output()
+        .unwrap();
+    assert_eq!(out.status.code(), Some(1));
+    let text = String::from_utf8(out.stdout).unwrap();
+    assert!(text.contains("211.95 degF") && text.contains("0.450 degF"), "{text}");
+    let xml = std::fs::read_to_string(&junit).unwrap();
+    assert!(xml.contains("expected 210.2 degF"), "{xml}");
+    let out = bin().args(["check", "--json"]).arg(&path).output().unwrap();
+    let v: Value = serde_json::from_slice(&out.stdout).unwrap();
+    let c = &v["rows"][1]["checks"][0];
+    assert_eq!(c["unit"], "degF");
+    let computed = c["computed"].as_f64().unwrap();
+    assert!((computed - 211.95).abs() < 0.5, "{c}");
+    assert!((c["allowed"].as_f64().unwrap() - 0.45).abs() < 1e-9);
+}

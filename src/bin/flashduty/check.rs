@@ -17,7 +17,7 @@ use crate::error::{CliError, CliResult, bail};
 use crate::sheet::{self, Column, Role, Sheet};
 use crate::text::{Align, Table, num};
 use flashduty::library::Library;
-use flashduty::units::{QuantityKind, parse_si, to_si};
+use flashduty::units::{QuantityKind, from_si, parse_si, to_si};
 use rayon::prelude::*;
 use serde_json::{Value, json};
 use std::fmt::Write;
@@ -44,6 +44,20 @@ pub struct Comparison {
     pub pass: bool,
     /// Why it failed, when it could not be compared.
     pub note: Option<String>,
+    /// The unit the numbers are shown in: the expected column's header unit, where it
+    /// names one (computed, expected, deviation and allowed are then all in it); else the
+    /// output's own SI unit.
+    pub unit: Option<String>,
+}
+
+impl Comparison {
+    /// A number of this comparison as shown, with its unit where it is shown in the header's.
+    pub fn shown(&self, value: &str) -> String {
+        match &self.unit {
+            Some(u) if value != "-" => format!("{value} {u}"),
+            _ => value.to_string(),
+        }
+    }
 }
 
 /// One row's result.
@@ -201,6 +215,7 @@ fn compare(
         allowed: None,
         pass: false,
         note: None,
+        unit: None,
     };
     let Some(value) = lookup(output, key) else {
         c.computed = "-".into();
@@ -258,6 +273,27 @@ fn compare(
                     c.deviation = Some(dev);
                     c.allowed = Some(allowed);
                     c.pass = dev.abs() <= allowed;
+                    // Shown in the header's unit, where it names one: the pass/fail above
+                    // is decided in SI, the numbers a reader compares are in one unit.
+                    if let (Some(u), Some(kind)) = (expect_col.unit.as_deref(), key_kind(key)) {
+                        let field = &expect_col.header;
+                        let shown = (|| -> CliResult<(f64, f64, f64)> {
+                            let zero = from_si(kind, field, 0.0, u)?;
+                            Ok((
+                                from_si(kind, field, computed, u)?,
+                                from_si(kind, field, e, u)?,
+                                from_si(kind, field, allowed, u)? - zero,
+                            ))
+                        })();
+                        if let Ok((computed_u, expected_u, allowed_u)) = shown {
+                            c.computed = format!("{computed_u}");
+                            c.expected = format!("{expected_u}");
+                            c.computed_value = json!(computed_u);
+                            c.deviation = Some(computed_u - expected_u);
+                            c.allowed = Some(allowed_u.abs());
+                            c.unit = Some(u.to_string());
+                        }
+                    }
                 }
                 Err(err) => c.note = Some(err.to_string()),
             }
@@ -407,12 +443,12 @@ pub fn report(name: &str, results: &[RowResult]) -> String {
                 id.clone(),
                 cmd.clone(),
                 c.key.clone(),
-                c.computed.clone(),
-                c.expected.clone(),
+                c.shown(&c.computed),
+                c.shown(&c.expected),
                 c.deviation.map_or("-".into(), |d| {
-                    format!("{}{}", if d >= 0.0 { "+" } else { "" }, num(d, 3))
+                    c.shown(&format!("{}{}", if d >= 0.0 { "+" } else { "" }, num(d, 3)))
                 }),
-                c.allowed.map_or("-".into(), |a| num(a, 3)),
+                c.allowed.map_or("-".into(), |a| c.shown(&num(a, 3))),
                 if c.pass { "pass".into() } else { "FAIL".into() },
             ]);
         }
@@ -435,8 +471,8 @@ pub fn report(name: &str, results: &[RowResult]) -> String {
                     "  {}: {}: computed {}, expected {}: {why}",
                     r.label(),
                     c.key,
-                    c.computed,
-                    c.expected
+                    c.shown(&c.computed),
+                    c.shown(&c.expected)
                 );
             }
         }
@@ -464,6 +500,7 @@ pub fn to_json(name: &str, results: &[RowResult]) -> Value {
                     "expected": c.expected,
                     "deviation": c.deviation,
                     "allowed": c.allowed,
+                    "unit": c.unit,
                     "passed": c.pass,
                     "note": c.note,
                 })).collect::<Vec<_>>(),
@@ -539,8 +576,8 @@ pub fn junit(name: &str, results: &[RowResult]) -> String {
             lines.push(format!(
                 "{}: computed {}, expected {}{}",
                 c.key,
-                c.computed,
-                c.expected,
+                c.shown(&c.computed),
+                c.shown(&c.expected),
                 c.note.as_ref().map(|n| format!(" ({n})")).unwrap_or_default()
             ));
         }
