@@ -1972,3 +1972,54 @@ fn check_reports_in_the_headers_unit() {
     assert!((computed - 211.95).abs() < 0.5, "{c}");
     assert!((c["allowed"].as_f64().unwrap() - 0.45).abs() < 1e-9);
 }
+
+/// Outputs engineers expect: each phase's molar and mass flow, molar mass and component
+/// flows, and the enthalpy table's component flows in the unit the input's flow was given
+/// in. Checked by the balances they must close (common practice) and the molar masses of the
+/// library.
+#[test]
+fn phase_flows_and_the_inputs_unit() {
+    let v = json_args(&["duty", repo("examples/duty.json").to_str().unwrap()]);
+    let out = &v["outlet"]["phases"];
+    let (l, g) = (&out["liquid"], &out["vapour"]);
+    let total_kg_h = (f(l, "mass_flow_kg_s") + f(g, "mass_flow_kg_s")) * 3600.0;
+    assert!((total_kg_h - 1200.0).abs() < 1e-9, "{total_kg_h}"); // the case's "1200 kg/h"
+    let mol = f(l, "flow_mol_s") + f(g, "flow_mol_s");
+    assert!((mol - f(&v, "flow_mol_s")).abs() < 1e-12);
+    // Molar mass of the liquid from its composition and the library's molar masses.
+    let x: Vec<f64> = serde_json::from_value(v["outlet"]["x"].clone()).unwrap();
+    let names: Vec<String> = serde_json::from_value(v["components"].clone()).unwrap();
+    let lib = flashduty::library::Library::builtin();
+    let m: f64 = names
+        .iter()
+        .zip(&x)
+        .map(|(n, xi)| xi * lib.get(n).unwrap().molar_mass_g_per_mol())
+        .sum();
+    assert!((f(l, "molar_mass_g_per_mol") - m).abs() < 1e-12);
+    let comp: Vec<f64> = serde_json::from_value(l["component_flows_mol_s"].clone()).unwrap();
+    assert!((comp.iter().sum::<f64>() - f(l, "flow_mol_s")).abs() < 1e-12);
+    // The table's flows in kg/h add up to the 1200 kg/h given, at the inlet and the outlet.
+    for state in ["inlet", "outlet"] {
+        let sum: f64 = v["table"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .filter(|r| r["state"] == state)
+            .map(|r| {
+                assert_eq!(r["flow_unit"], "kg/h");
+                r["flow_in_unit"].as_f64().unwrap()
+            })
+            .sum();
+        assert!((sum - 1200.0).abs() < 1e-9, "{state}: {sum}");
+    }
+    let text = String::from_utf8(
+        bin()
+            .arg("duty")
+            .arg(repo("examples/duty.json"))
+            .output()
+            .unwrap()
+            .stdout,
+    )
+    .unwrap();
+    assert!(text.contains("flow [kg/h]") && text.contains("molar mass"), "{text}");
+}

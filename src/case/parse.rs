@@ -241,6 +241,17 @@ pub struct Case {
     pub points: Option<usize>,
     /// The immiscible water phase, where asked for.
     pub water_phase: Option<WaterPhaseInput>,
+    /// The unit the flow (or the first component flow) was typed in, where one was.
+    pub flow_unit: Option<String>,
+}
+
+/// The unit of a quantity typed as text (`"3.6 kmol/h"` gives `kmol/h`), if any.
+fn typed_unit(v: &Value) -> Option<String> {
+    let text = v.as_str()?.trim();
+    let unit = text
+        .trim_start_matches(|c: char| c.is_ascii_digit() || "+-.eE".contains(c))
+        .trim();
+    (!unit.is_empty() && unit.len() < text.len()).then(|| unit.to_string())
 }
 
 /// The `water_phase` key: water forms a liquid of its own beside the organic liquid, with
@@ -892,12 +903,20 @@ pub fn parse_case(value: &Value, command: Command) -> CaseResult<Case> {
             }
             "components" => case.components = Some(list("components", v, name)?),
             "z" => case.z = Some(list("z", v, number)?),
-            "flows" => case.flows = Some(list("flows", v, component_flow)?),
+            "flows" => {
+                case.flows = Some(list("flows", v, component_flow)?);
+                if case.flow_unit.is_none() {
+                    case.flow_unit = v.as_array().and_then(|a| a.first()).and_then(typed_unit);
+                }
+            }
             "K" => case.k = Some(list("K", v, number)?),
             "T" => case.t = Some(temperature("T", v)?),
             "P" => case.p = Some(pressure("P", v)?),
             "vapour_fraction" => case.vapour_fraction = Some(vapour_fraction("vapour_fraction", v)?),
-            "flow" => case.flow = Some(any_flow("flow", v)?),
+            "flow" => {
+                case.flow = Some(any_flow("flow", v)?);
+                case.flow_unit = typed_unit(v);
+            }
             "inlet" => case.inlet = Some(state("inlet", v)?),
             "outlet" => case.outlet = Some(state("outlet", v)?),
             "duty" => case.duty = Some(power("duty", v)?),

@@ -40,6 +40,8 @@ pub struct Feed {
     pub flow_mol_s: Option<f64>,
     /// Warnings about the feed as given (mole fractions normalised).
     pub warnings: Vec<Warning>,
+    /// The unit the total flow (or the component flows) was given in, where one was.
+    pub flow_unit: Option<String>,
 }
 
 /// How far from 1 typed mole fractions may sum and still be normalised (with a warning):
@@ -113,6 +115,76 @@ impl From<&FlashResult> for State {
             water: r.water_phase.clone(),
         }
     }
+}
+
+/// One phase's flows: the phase's share of the stream, its mass flow, molar mass and
+/// component flows.
+#[derive(Debug, Clone, PartialEq)]
+pub struct PhaseFlow {
+    /// `"liquid"`, `"vapour"`, or with a water phase `"organic"` and `"aqueous"`.
+    pub phase: &'static str,
+    /// Molar flow of the phase, mol/s.
+    pub flow_mol_s: f64,
+    /// Mass flow of the phase, kg/s.
+    pub mass_flow_kg_s: f64,
+    /// Mean molar mass of the phase, g/mol.
+    pub molar_mass_g_per_mol: f64,
+    /// Each component's molar flow in the phase, mol/s.
+    pub component_flows_mol_s: Vec<f64>,
+}
+
+/// The flows of each phase present in `s` for a stream of `components` at `flow_mol_s`.
+pub fn phase_flows(components: &[Arc<Component>], flow_mol_s: f64, s: &State) -> Vec<PhaseFlow> {
+    let mut out = Vec::new();
+    let mut add = |phase: &'static str, amount: f64, x: Option<&Vec<f64>>| {
+        let Some(x) = x else {
+            return;
+        };
+        if amount.is_nan() || amount <= 0.0 || x.len() != components.len() {
+            return;
+        }
+        let m: f64 = x
+            .iter()
+            .zip(components)
+            .map(|(xi, c)| xi * c.molar_mass_g_per_mol())
+            .sum();
+        let n = flow_mol_s * amount;
+        out.push(PhaseFlow {
+            phase,
+            flow_mol_s: n,
+            mass_flow_kg_s: n * m * 1e-3,
+            molar_mass_g_per_mol: m,
+            component_flows_mol_s: x.iter().map(|xi| n * xi).collect(),
+        });
+    };
+    match &s.water {
+        None => add("liquid", s.liquid_fraction, s.x.as_ref()),
+        Some(w) => {
+            add("organic", w.organic_fraction, s.x.as_ref());
+            add("aqueous", w.aqueous_fraction, w.aqueous.as_ref());
+        }
+    }
+    add("vapour", s.vapour_fraction, s.y.as_ref());
+    out
+}
+
+fn phases_json(flows: &[PhaseFlow]) -> Value {
+    Value::Object(
+        flows
+            .iter()
+            .map(|f| {
+                (
+                    f.phase.to_string(),
+                    json!({
+                        "flow_mol_s": f.flow_mol_s,
+                        "mass_flow_kg_s": f.mass_flow_kg_s,
+                        "molar_mass_g_per_mol": f.molar_mass_g_per_mol,
+                        "component_flows_mol_s": f.component_flows_mol_s,
+                    }),
+                )
+            })
+            .collect(),
+    )
 }
 
 /// What a flash, bubble or dew command found.
@@ -258,6 +330,7 @@ pub fn feed(lib: &Library, case: &Case) -> CaseResult<Feed> {
         flow_mol_s: flow_given.then(|| stream.flow().mol_per_s()),
         stream: Some(stream),
         warnings,
+        flow_unit: case.flow_unit.clone(),
     })
 }
 
@@ -379,6 +452,7 @@ fn k_flash(case: &Case) -> CaseResult<FlashOutcome> {
             z,
             flow_mol_s: flow,
             warnings,
+            flow_unit: None,
         },
         state,
         given_k: true,
@@ -629,6 +703,23 @@ pub fn state_json(names: Option<&[String]>, s: &State) -> Value {
     v
 }
 
+/// A component's molar flow (mol/s) in the unit the input's flow was given in: a molar
+/// unit directly, a mass unit through the molar mass (kg/mol).
+pub fn flow_in_unit(flow_mol_s: f64, molar_mass_kg_per_mol: Option<f64>, unit: &str) -> Option<f64> {
+    use crate::units::{QuantityKind, from_si};
+    from_si(QuantityKind::MolarFlow, "flow", flow_mol_s, unit)
+        .ok()
+        .or_else(|| {
+            from_si(
+                QuantityKind::MassFlow,
+                "flow",
+                flow_mol_s * molar_mass_kg_per_mol?,
+                unit,
+            )
+            .ok()
+        })
+}
+
 fn row_json(r: &EnthalpyRow) -> Value {
     json!({
         "state": r.state,
@@ -683,6 +774,10 @@ impl Outcome {
                             m.insert("organic_flow_mol_s".into(), json!(flow * w.organic_fraction));
                             m.insert("aqueous_flow_mol_s".into(), json!(flow * w.aqueous_fraction));
                         }
+                        if let Some(stream) = &f.feed.stream {
+                            let flows = phase_flows(stream.components(), flow, &f.state);
+                            m.insert("phases".into(), phases_json(&flows));
+                        }
                     }
                 }
                 v
@@ -691,17 +786,49 @@ impl Outcome {
                 let r = &d.result;
                 let names = d.feed.names.as_deref();
                 let (reference, path, vapour_model) = options_json(&r.options);
+                let with_phases = |s: &FlashResult| {
+                    let state = State::from(s);
+                    let mut v = state_json(names, &state);
+                    if let (Value::Object(m), Some(stream)) = (&mut v, &d.feed.stream) {
+                        m.insert(
+                            "phases".into(),
+                            phases_json(&phase_flows(stream.components(), r.flow_mol_s, &state)),
+                        );
+                    }
+                    v
+                };
+                let table: Vec<Value> = r
+                    .table
+                    .iter()
+                    .map(|row| {
+                        let mut v = row_json(row);
+                        if let (Value::Object(m), Some(unit), Some(stream)) =
+                            (&mut v, &d.feed.flow_unit, &d.feed.stream)
+                        {
+                            let molar_mass = stream
+                                .components()
+                                .iter()
+                                .find(|c| c.name() == row.component)
+                                .map(|c| c.molar_mass_g_per_mol() * 1e-3);
+                            if let Some(x) = flow_in_unit(row.flow_mol_s, molar_mass, unit) {
+                                m.insert("flow_in_unit".into(), json!(x));
+                                m.insert("flow_unit".into(), json!(unit));
+                            }
+                        }
+                        v
+                    })
+                    .collect();
                 json!({
                     "duty_W": r.duty_w,
                     "duty_given": d.duty_given,
                     "flow_mol_s": r.flow_mol_s,
                     "components": names,
                     "z": d.feed.z,
-                    "inlet": state_json(names, &State::from(&r.inlet)),
-                    "outlet": state_json(names, &State::from(&r.outlet)),
+                    "inlet": with_phases(&r.inlet),
+                    "outlet": with_phases(&r.outlet),
                     "inlet_h_J_per_mol": r.inlet_enthalpy_j_per_mol,
                     "outlet_h_J_per_mol": r.outlet_enthalpy_j_per_mol,
-                    "table": r.table.iter().map(row_json).collect::<Vec<_>>(),
+                    "table": table,
                     "path_spread": {
                         "boiling_point_W": r.path_spread.boiling_point_w,
                         "stream_temperature_W": r.path_spread.stream_temperature_w,

@@ -1,7 +1,7 @@
 //! Human-readable reports: tidy tables with units, the warnings, and the caution line.
 
 use crate::case::Command;
-use crate::compute::{CAUTION, CurveOutcome, DutyOutcome, FlashOutcome, Outcome, State};
+use crate::compute::{CAUTION, CurveOutcome, DutyOutcome, FlashOutcome, Outcome, PhaseFlow, State, phase_flows};
 use flashduty::energy::VapourModel;
 use flashduty::rachford_rice::Phase;
 use flashduty::warnings::Warning;
@@ -243,6 +243,9 @@ fn flash_text(out: &mut String, f: &FlashOutcome) {
             num(flow * s.liquid_fraction, 6),
             num(flow * s.vapour_fraction, 6)
         );
+        if let Some(stream) = &f.feed.stream {
+            phase_lines(out, &phase_flows(stream.components(), flow, s));
+        }
     }
     let _ = writeln!(out);
     composition(out, f.feed.names.as_deref(), &f.feed.z, s, 2);
@@ -262,6 +265,20 @@ fn flash_text(out: &mut String, f: &FlashOutcome) {
     let _ = writeln!(out, "{extra}");
     let _ = writeln!(out);
     warnings(out, &s.warnings);
+}
+
+/// One line per phase: molar and mass flow and molar mass.
+fn phase_lines(out: &mut String, flows: &[PhaseFlow]) {
+    for f in flows {
+        let _ = writeln!(
+            out,
+            "  {:<8} {} mol/s  {} kg/h  molar mass {} g/mol",
+            f.phase,
+            num(f.flow_mol_s, 6),
+            num(f.mass_flow_kg_s * 3600.0, 6),
+            num(f.molar_mass_g_per_mol, 5)
+        );
+    }
 }
 
 /// The enthalpy table and duty of a duty result (used by the duty command and the demo).
@@ -326,7 +343,11 @@ pub fn duty_body(out: &mut String, d: &DutyOutcome) {
     out.push_str(&t.render(2));
     for (label, f) in [("inlet", &r.inlet), ("outlet", &r.outlet)] {
         let _ = writeln!(out, "\n  {label} composition:");
-        composition(out, names, &d.feed.z, &State::from(f), 4);
+        let state = State::from(f);
+        composition(out, names, &d.feed.z, &state, 4);
+        if let Some(stream) = &d.feed.stream {
+            phase_lines(out, &phase_flows(stream.components(), r.flow_mol_s, &state));
+        }
     }
     let _ = writeln!(
         out,
@@ -334,6 +355,13 @@ pub fn duty_body(out: &mut String, d: &DutyOutcome) {
     );
     // The departure column appears only where the vapour model has one.
     let departure = r.options.vapour_model != VapourModel::IdealGas;
+    // The component flows also in the unit the input's flow was given in, where it was.
+    let unit = d
+        .feed
+        .flow_unit
+        .clone()
+        .filter(|u| crate::compute::flow_in_unit(1.0, Some(1.0), u).is_some() && u.as_str() != "mol/s");
+    let unit_head = unit.as_ref().map(|u| format!("flow [{u}]"));
     let mut columns = vec![
         ("state", Align::Left),
         ("component", Align::Left),
@@ -343,6 +371,9 @@ pub fn duty_body(out: &mut String, d: &DutyOutcome) {
         ("latent", Align::Right),
         ("vap. sensible", Align::Right),
     ];
+    if let Some(h) = &unit_head {
+        columns.insert(4, (h.as_str(), Align::Right));
+    }
     if departure {
         columns.push(("vap. departure", Align::Right));
     }
@@ -356,10 +387,21 @@ pub fn duty_body(out: &mut String, d: &DutyOutcome) {
             row.component.clone(),
             phase_word(row.phase).into(),
             num(row.flow_mol_s, 6),
+        ];
+        if let Some(u) = &unit {
+            let molar_mass = d
+                .feed
+                .stream
+                .as_ref()
+                .and_then(|s| s.components().iter().find(|c| c.name() == row.component))
+                .map(|c| c.molar_mass_g_per_mol() * 1e-3);
+            cells.push(crate::compute::flow_in_unit(row.flow_mol_s, molar_mass, u).map_or("-".into(), |x| num(x, 6)));
+        }
+        cells.extend([
             fixed(row.liquid_sensible_j_per_mol, 1),
             fixed(row.latent_j_per_mol, 1),
             fixed(row.vapour_sensible_j_per_mol, 1),
-        ];
+        ]);
         if departure {
             cells.push(fixed(row.vapour_departure_j_per_mol, 1));
         }
