@@ -174,36 +174,42 @@ pub fn run(
     } else {
         Vec::new()
     };
+    let fast = (format == Format::Csv).then(|| GivenK::plan(command, &cols)).flatten();
     let mut failed = 0;
     let mut done = 0;
     let mut written = emit(out, &header);
-    while written.is_ok() {
-        let chunk: Vec<sheet::Row> = rows.by_ref().take(CHUNK_ROWS).collect();
-        if chunk.is_empty() {
-            break;
-        }
-        // Each row is computed and, for text output, formatted in parallel; the rows are
-        // then written in input order.
+    // Each row is computed and, for text output, formatted in parallel; the rows are then
+    // written in input order. The next chunk is read while this one is computed.
+    let has_book = book.is_some();
+    let compute = |chunk: &[sheet::Row]| -> Vec<(bool, Result<Vec<u8>, RowResult>)> {
         let line = |row: &sheet::Row, result: RowResult| match format {
             Format::JsonLines => json_line(command, row, result),
             _ => csv_row(keys, row, result),
         };
-        let computed: Vec<(bool, Result<Vec<u8>, RowResult>)> = chunk
+        chunk
             .par_iter()
             .map(|r| {
+                // Plain given-K rows take the fast path; it gives the same line or declines.
+                if let (Some(plan), false) = (&fast, has_book)
+                    && let Some(line) = plan.line(&cols, r)
+                {
+                    return (false, Ok(line));
+                }
                 let result = run_row(lib, &cols, command, r);
                 let failed = result.1.is_err();
                 // A workbook is filled on this thread; text is formatted here, in parallel.
-                (
-                    failed,
-                    if book.is_some() {
-                        Err(result)
-                    } else {
-                        Ok(line(r, result))
-                    },
-                )
+                (failed, if has_book { Err(result) } else { Ok(line(r, result)) })
             })
-            .collect();
+            .collect()
+    };
+    let mut chunk: Vec<sheet::Row> = rows.by_ref().take(CHUNK_ROWS).collect();
+    while written.is_ok() && !chunk.is_empty() {
+        let (computed, next) = std::thread::scope(|scope| {
+            let worker = scope.spawn(|| compute(&chunk));
+            let next: Vec<sheet::Row> = rows.by_ref().take(CHUNK_ROWS).collect();
+            (worker.join(), next)
+        });
+        let computed = computed.map_err(|_| CliError::new("batch: a worker thread failed"))?;
         done += chunk.len();
         if done >= PROGRESS_ROWS {
             bar.set_position(done as u64);
@@ -215,10 +221,14 @@ pub fn run(
                 workbook_rows(b, keys, cols.len(), &chunk, results).map_err(Some)
             }
             None => {
-                let text: Vec<u8> = computed.into_iter().filter_map(|(_, r)| r.ok()).flatten().collect();
+                let mut text = Vec::with_capacity(computed.iter().map(|(_, r)| r.as_ref().map_or(0, Vec::len)).sum());
+                for line in computed.into_iter().filter_map(|(_, r)| r.ok()) {
+                    text.extend_from_slice(&line);
+                }
                 emit(out, &text)
             }
         };
+        chunk = next;
     }
     bar.finish_and_clear();
     if written.is_ok()
@@ -241,6 +251,123 @@ fn csv_line(cells: &[&str]) -> Vec<u8> {
     let mut w = csv::WriterBuilder::new().from_writer(Vec::new());
     let _ = w.write_record(cells);
     w.into_inner().unwrap_or_default()
+}
+
+/// The fast path of a flash batch whose only case fields are `z` and `K` (given
+/// K-values, no units): a row is parsed, split by the Rachford–Rice solver and formatted
+/// without building a case or its JSON. It gives exactly the line the general path gives
+/// (a test compares them), and declines any row that is not plain (a cell that is not a
+/// list of finite non-negative numbers, lengths that differ, mole fractions that do not sum
+/// to 1 within round-off, any error): the general path then runs it, with its messages and
+/// warnings.
+struct GivenK {
+    z: usize,
+    k: usize,
+}
+
+impl GivenK {
+    fn plan(command: Command, cols: &[Column]) -> Option<Self> {
+        if command != Command::Flash {
+            return None;
+        }
+        let (mut z, mut k) = (None, None);
+        for (i, c) in cols.iter().enumerate() {
+            match &c.role {
+                Role::Field(path) if c.unit.is_none() && path.len() == 1 && path[0] == "z" => z = Some(i),
+                Role::Field(path) if c.unit.is_none() && path.len() == 1 && path[0] == "K" => k = Some(i),
+                Role::Field(_) => return None,
+                _ => {}
+            }
+        }
+        Some(Self { z: z?, k: k? })
+    }
+
+    fn list(cell: &str) -> Option<Vec<f64>> {
+        cell.split(';')
+            .map(|t| t.trim().parse::<f64>().ok().filter(|x| x.is_finite() && *x >= 0.0))
+            .collect()
+    }
+
+    fn line(&self, cols: &[Column], row: &sheet::Row) -> Option<Vec<u8>> {
+        if row.error.is_some() {
+            return None;
+        }
+        if let Some(c) = row.cell(cols, &Role::Command)
+            && Command::from_name(c) != Some(Command::Flash)
+        {
+            return None;
+        }
+        let z = Self::list(row.cells.get(self.z)?)?;
+        let k = Self::list(row.cells.get(self.k)?)?;
+        let sum: f64 = z.iter().sum();
+        // (Every value is finite, so the sum is.)
+        if z.is_empty() || z.len() != k.len() || (sum - 1.0).abs() > flashduty::case::TYPED_SUM_TOLERANCE {
+            return None;
+        }
+        // As the case schema does: typed mole fractions off by more than round-off are
+        // normalised, with the warning that gives their sum.
+        let (z, warning) = if (sum - 1.0).abs() > 1e-9 {
+            (
+                z.iter().map(|v| v / sum).collect(),
+                flashduty::warnings::Warning::CompositionNormalised { sum }.to_string(),
+            )
+        } else {
+            (z, String::new())
+        };
+        let s = flashduty::rachford_rice::rachford_rice(&z, &k).ok()?;
+        // The line is written straight into one buffer; numbers as serde_json prints them
+        // (the general path's cells), lists joined by ';', text quoted as the csv writer
+        // would quote it.
+        use std::fmt::Write as _;
+        let mut line = String::with_capacity(64 + 24 * 4 * z.len());
+        let number = |line: &mut String, x: f64| {
+            if let Some(n) = serde_json::Number::from_f64(x) {
+                let _ = write!(line, "{n}");
+            }
+        };
+        let list = |line: &mut String, v: &[f64]| {
+            for (i, &x) in v.iter().enumerate() {
+                if i > 0 {
+                    line.push(';');
+                }
+                number(line, x);
+            }
+        };
+        let _ = write!(line, "{},", row.line);
+        push_text(&mut line, row.cell(cols, &Role::Id).unwrap_or_default());
+        let _ = write!(line, ",{},", s.phase);
+        number(&mut line, s.vapour_fraction);
+        line.push(',');
+        number(&mut line, s.liquid_fraction);
+        line.push_str(",,,,");
+        list(&mut line, &z);
+        line.push(',');
+        if let Some(x) = &s.liquid {
+            list(&mut line, x);
+        }
+        line.push(',');
+        if let Some(y) = &s.vapour {
+            list(&mut line, y);
+        }
+        line.push(',');
+        list(&mut line, &k);
+        let _ = write!(line, ",,{},,,", s.iterations);
+        push_text(&mut line, &warning);
+        line.push_str(",\n");
+        Some(line.into_bytes())
+    }
+}
+
+/// Text as one CSV field: quoted (quotes doubled) where it holds a comma, a quote or a line
+/// break, as the csv writer's default does.
+fn push_text(line: &mut String, text: &str) {
+    if text.contains([',', '"', '\n', '\r']) {
+        line.push('"');
+        line.push_str(&text.replace('"', "\"\""));
+        line.push('"');
+    } else {
+        line.push_str(text);
+    }
 }
 
 /// One row as a CSV line.
@@ -360,4 +487,72 @@ fn workbook_rows(
         }
     }
     Ok(())
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use proptest::prelude::*;
+
+    /// The given-K fast path gives, byte for byte, the line of the general path (case
+    /// schema, library, JSON, csv writer), for feeds whose mole fractions sum to 1 exactly
+    /// or within 1e-3 (normalised with the warning), single- and two-phase, K from 1e-6 to
+    /// 1e6, with ids that need quoting; and it declines what the general path refuses.
+    #[test]
+    fn fast_path_lines_are_the_general_paths() {
+        let lib = Library::builtin();
+        let text = "command,id,z,K\n";
+        let cols = sheet::read("t.csv", text.as_bytes(), None).unwrap().columns;
+        let plan = GivenK::plan(Command::Flash, &cols).unwrap();
+        let keys = columns(Command::Flash);
+        let mut runner = proptest::test_runner::TestRunner::default();
+        let strategy = (
+            proptest::collection::vec((0.01f64..1.0, -6.0f64..6.0), 2..12),
+            prop_oneof![Just(0.0), -1e-4f64..1e-4, -1e-9f64..1e-9],
+            prop_oneof![
+                Just("a".to_string()),
+                Just("row, \"quoted\"".to_string()),
+                "[a-z0-9 ]{0,8}"
+            ],
+        );
+        runner
+            .run(&strategy, |(parts, off, id)| {
+                let sum: f64 = parts.iter().map(|p| p.0).sum();
+                let z: Vec<String> = parts.iter().map(|p| format!("{}", p.0 / sum * (1.0 + off))).collect();
+                let k: Vec<String> = parts.iter().map(|p| format!("{}", 10f64.powf(p.1))).collect();
+                let row = sheet::Row {
+                    line: 7,
+                    cells: vec!["flash".into(), id, z.join(";"), k.join(";")],
+                    error: None,
+                };
+                let general = csv_row(keys, &row, run_row(lib, &cols, Command::Flash, &row));
+                match plan.line(&cols, &row) {
+                    Some(fast) => {
+                        prop_assert_eq!(String::from_utf8(fast).unwrap(), String::from_utf8(general).unwrap())
+                    }
+                    None => prop_assert!(
+                        String::from_utf8(general)
+                            .unwrap()
+                            .trim_end()
+                            .ends_with(|c: char| c != ','),
+                        "declined a row the general path ran"
+                    ),
+                }
+                Ok(())
+            })
+            .unwrap();
+        // Declined: a negative mole fraction, lengths that differ, text.
+        for (z, k) in [("0.5;-0.5", "2;0.5"), ("0.5;0.5", "2"), ("half;half", "2;0.5")] {
+            let row = sheet::Row {
+                line: 2,
+                cells: vec!["flash".into(), String::new(), z.into(), k.into()],
+                error: None,
+            };
+            assert!(plan.line(&cols, &row).is_none(), "{z} {k}");
+        }
+        // Other case fields, or another command: no fast path.
+        let other = sheet::read("t.csv", b"command,z,K,T\n", None).unwrap().columns;
+        assert!(GivenK::plan(Command::Flash, &other).is_none());
+        assert!(GivenK::plan(Command::Bubble, &cols).is_none());
+    }
 }
