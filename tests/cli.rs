@@ -2023,3 +2023,54 @@ fn phase_flows_and_the_inputs_unit() {
     .unwrap();
     assert!(text.contains("flow [kg/h]") && text.contains("molar mass"), "{text}");
 }
+
+/// `--output-units field` (or a units file) for the human report and the JSON: the JSON keeps its
+/// SI keys and adds the same values in the chosen units. Conversions: NIST SP 811 (212 °F at
+/// 373.15 K; 1 Btu/h = 0.293071 W).
+#[test]
+fn output_units() {
+    let out = bin()
+        .args(["--output-units", "field", "duty"])
+        .arg(repo("examples/duty.json"))
+        .output()
+        .unwrap();
+    let text = String::from_utf8(out.stdout).unwrap();
+    assert!(
+        text.contains("Btu/h") && text.contains("degF") && text.contains("lbmol/h") && text.contains("P [psia]"),
+        "{text}"
+    );
+    let v = json_args(&[
+        "--output-units",
+        "field",
+        "duty",
+        repo("examples/duty.json").to_str().unwrap(),
+    ]);
+    let (w, btu) = (f(&v, "duty_W"), f(&v, "duty_Btu_per_h"));
+    assert!((btu * 0.293_071_070_172 - w).abs() < 1e-6 * w.abs());
+    let (t_k, t_f) = (f(&v["outlet"], "T_K"), f(&v["outlet"], "T_degF"));
+    assert!((t_f - (t_k * 1.8 - 459.67)).abs() < 1e-9);
+    let dir = tempfile::tempdir().unwrap();
+    let units = dir.path().join("units.toml");
+    std::fs::write(&units, "temperature = \"degC\"\npressure = \"bar\"\npower = \"kW\"\n").unwrap();
+    let v = json_args(&[
+        "--output-units",
+        units.to_str().unwrap(),
+        "bubble",
+        repo("examples/bubble.json").to_str().unwrap(),
+    ]);
+    assert!((f(&v, "T_degC") - (f(&v, "T_K") - 273.15)).abs() < 1e-9);
+    assert!((f(&v, "P_bar") - f(&v, "P_Pa") / 1e5).abs() < 1e-12);
+    std::fs::write(&units, "temperature = \"furlongs\"\n").unwrap();
+    let out = bin()
+        .args(["--output-units", units.to_str().unwrap(), "bubble"])
+        .arg(repo("examples/bubble.json"))
+        .output()
+        .unwrap();
+    assert_error_output(&out, &["--output-units", "furlongs"]);
+    let out = bin()
+        .args(["--output-units", "imperial", "bubble"])
+        .arg(repo("examples/bubble.json"))
+        .output()
+        .unwrap();
+    assert_error_output(&out, &["--output-units", "'imperial'", "si, field"]);
+}

@@ -11,6 +11,7 @@ mod error;
 mod fit;
 #[cfg(test)]
 mod fuzz_tests;
+mod output_units;
 mod plot;
 mod sheet;
 mod text;
@@ -76,6 +77,19 @@ struct Cli {
     /// Write one JSON object to standard output instead of the human-readable report.
     #[arg(long, global = true)]
     json: bool,
+
+    /// Units of the report: si (the default), field (°F, psia, lbmol/h, lb/h, Btu/h,
+    /// Btu/lbmol) or a JSON/TOML file naming a unit per quantity. The JSON keeps its SI keys
+    /// and adds the same values in these units under keys that name them.
+    /// (`--units` is the fit command's Antoine unit convention, so this one is
+    /// `--output-units`.)
+    #[arg(
+        long = "output-units",
+        global = true,
+        value_name = "si|field|FILE",
+        default_value = "si"
+    )]
+    output_units: String,
 
     /// Add the components of a component file (JSON, or TOML by extension) to the library.
     /// May be repeated.
@@ -168,6 +182,9 @@ fn print(text: &str) -> CliResult<()> {
 }
 
 fn print_json(v: &serde_json::Value) -> CliResult<()> {
+    let mut v = v.clone();
+    output_units::augment(&mut v);
+    let v = &v;
     let text = serde_json::to_string_pretty(v).map_err(|e| CliError::new(format!("JSON output: {e}")))?;
     print(&format!("{text}\n"))
 }
@@ -235,6 +252,7 @@ fn case_command(cli: &Cli, command: Command, args: &CaseArgs) -> CliResult<u8> {
 }
 
 fn run(cli: &Cli) -> CliResult<u8> {
+    output_units::set(output_units::Units::choose(&cli.output_units)?);
     match &cli.command {
         Cmd::Flash(a) => case_command(cli, Command::Flash, a),
         Cmd::Bubble(a) => case_command(cli, Command::Bubble, a),

@@ -2,8 +2,10 @@
 
 use crate::case::Command;
 use crate::compute::{CAUTION, CurveOutcome, DutyOutcome, FlashOutcome, Outcome, PhaseFlow, State, phase_flows};
+use crate::output_units::{chosen, convert};
 use flashduty::energy::VapourModel;
 use flashduty::rachford_rice::Phase;
+use flashduty::units::QuantityKind;
 use flashduty::warnings::Warning;
 use std::fmt::Write;
 
@@ -111,18 +113,47 @@ pub fn fixed(x: f64, decimals: usize) -> String {
     }
 }
 
-/// "341.88 K (68.73 °C)".
+/// "341.88 K (68.73 °C)", or in the unit of `--output-units`.
 pub fn temp(t_k: f64) -> String {
+    if let Some(u) = chosen() {
+        return format!(
+            "{} {}",
+            fixed(convert(QuantityKind::Temperature, t_k, &u.temperature), 2),
+            u.temperature
+        );
+    }
     format!("{} K ({} °C)", fixed(t_k, 2), fixed(t_k - 273.15, 2))
 }
 
-/// "101.325 kPa".
+/// "101.325 kPa", or in the unit of `--output-units`.
 pub fn pres(p_pa: f64) -> String {
+    if let Some(u) = chosen() {
+        return format!(
+            "{} {}",
+            num(convert(QuantityKind::Pressure, p_pa, &u.pressure), 6),
+            u.pressure
+        );
+    }
     format!("{} kPa", num(p_pa / 1e3, 6))
 }
 
-/// "12.345 kW".
+/// "3.6 mol/s", or in the unit of `--output-units`.
+pub fn molar_flow(mol_s: f64) -> String {
+    if let Some(u) = chosen() {
+        return format!(
+            "{} {}",
+            num(convert(QuantityKind::MolarFlow, mol_s, &u.molar_flow), 6),
+            u.molar_flow
+        );
+    }
+    format!("{} mol/s", num(mol_s, 6))
+}
+
+/// "12.345 kW", or in the unit of `--output-units`.
 pub fn power(w: f64) -> String {
+    if let Some(u) = chosen() {
+        return format!("{} {}", num(convert(QuantityKind::Power, w, &u.power), 6), u.power);
+    }
     if w.abs() >= 1e6 {
         format!("{} MW", num(w / 1e6, 6))
     } else {
@@ -238,10 +269,10 @@ fn flash_text(out: &mut String, f: &FlashOutcome) {
     if let Some(flow) = f.feed.flow_mol_s {
         let _ = writeln!(
             out,
-            "  flows: feed {} mol/s, liquid {} mol/s, vapour {} mol/s",
-            num(flow, 6),
-            num(flow * s.liquid_fraction, 6),
-            num(flow * s.vapour_fraction, 6)
+            "  flows: feed {}, liquid {}, vapour {}",
+            molar_flow(flow),
+            molar_flow(flow * s.liquid_fraction),
+            molar_flow(flow * s.vapour_fraction)
         );
         if let Some(stream) = &f.feed.stream {
             phase_lines(out, &phase_flows(stream.components(), flow, s));
@@ -270,12 +301,19 @@ fn flash_text(out: &mut String, f: &FlashOutcome) {
 /// One line per phase: molar and mass flow and molar mass.
 fn phase_lines(out: &mut String, flows: &[PhaseFlow]) {
     for f in flows {
+        let mass = match chosen() {
+            Some(u) => format!(
+                "{} {}",
+                num(convert(QuantityKind::MassFlow, f.mass_flow_kg_s, &u.mass_flow), 6),
+                u.mass_flow
+            ),
+            None => format!("{} kg/h", num(f.mass_flow_kg_s * 3600.0, 6)),
+        };
         let _ = writeln!(
             out,
-            "  {:<8} {} mol/s  {} kg/h  molar mass {} g/mol",
+            "  {:<8} {}  {mass}  molar mass {} g/mol",
             f.phase,
-            num(f.flow_mol_s, 6),
-            num(f.mass_flow_kg_s * 3600.0, 6),
+            molar_flow(f.flow_mol_s),
             num(f.molar_mass_g_per_mol, 5)
         );
     }
@@ -303,8 +341,8 @@ pub fn duty_body(out: &mut String, d: &DutyOutcome) {
     );
     let _ = writeln!(
         out,
-        "  stream flow {} mol/s ({} kmol/h)",
-        num(r.flow_mol_s, 6),
+        "  stream flow {} ({} kmol/h)",
+        molar_flow(r.flow_mol_s),
         num(r.flow_mol_s * 3.6, 6)
     );
     let phase = match r.options.reference.phase {
@@ -319,10 +357,11 @@ pub fn duty_body(out: &mut String, d: &DutyOutcome) {
         vapour_model_words(r.options.vapour_model)
     );
     let _ = writeln!(out);
+    let p_head = chosen().map_or("P [kPa]".to_string(), |u| format!("P [{}]", u.pressure));
     let mut t = Table::new(&[
         ("state", Align::Left),
         ("T", Align::Right),
-        ("P [kPa]", Align::Right),
+        (p_head.as_str(), Align::Right),
         ("phase", Align::Left),
         ("vapour fraction", Align::Right),
         ("h [J/mol]", Align::Right),
@@ -334,7 +373,10 @@ pub fn duty_body(out: &mut String, d: &DutyOutcome) {
         t.row(vec![
             label.into(),
             temp(f.temperature_k),
-            num(f.pressure_pa / 1e3, 6),
+            chosen().map_or_else(
+                || num(f.pressure_pa / 1e3, 6),
+                |u| num(convert(QuantityKind::Pressure, f.pressure_pa, &u.pressure), 6),
+            ),
             phase_word(f.phase).into(),
             fixed(f.vapour_fraction, 6),
             fixed(h, 1),
@@ -470,20 +512,37 @@ fn curve_text(out: &mut String, c: &CurveOutcome) {
         );
     }
     let _ = writeln!(out);
+    // In the units of --output-units where chosen: duty and temperature (twice, as K and °C are).
+    let (duty_head, t_head, t2_head) = match chosen() {
+        Some(u) => (
+            format!("duty [{}]", u.power),
+            format!("T [{}]", u.temperature),
+            "T [K]".to_string(),
+        ),
+        None => ("duty [kW]".to_string(), "T [K]".to_string(), "T [°C]".to_string()),
+    };
     let mut t = Table::new(&[
         ("#", Align::Right),
-        ("duty [kW]", Align::Right),
-        ("T [K]", Align::Right),
-        ("T [°C]", Align::Right),
+        (duty_head.as_str(), Align::Right),
+        (t_head.as_str(), Align::Right),
+        (t2_head.as_str(), Align::Right),
         ("vapour fraction", Align::Right),
         ("", Align::Left),
     ]);
     for (i, p) in cv.points.iter().enumerate() {
+        let (d, t1, t2) = match chosen() {
+            Some(u) => (
+                convert(QuantityKind::Power, p.duty_w, &u.power),
+                convert(QuantityKind::Temperature, p.temperature_k, &u.temperature),
+                p.temperature_k,
+            ),
+            None => (p.duty_w / 1e3, p.temperature_k, p.temperature_k - 273.15),
+        };
         t.row(vec![
             (i + 1).to_string(),
-            fixed(p.duty_w / 1e3, 4),
-            fixed(p.temperature_k, 3),
-            fixed(p.temperature_k - 273.15, 3),
+            fixed(d, 4),
+            fixed(t1, 3),
+            fixed(t2, 3),
             fixed(p.vapour_fraction, 5),
             match p.breakpoint {
                 "bubble" => "bubble point".to_string(),
