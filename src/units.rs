@@ -155,21 +155,39 @@ pub const ATM_PA: f64 = 101_325.0;
 /// The longest text an error message echoes whole, in characters.
 pub const ECHO_MAX_CHARS: usize = 60;
 
-/// `text` as error messages echo it: whole up to [`ECHO_MAX_CHARS`] characters, else its
-/// start and its length, so that a multi-megabyte value gives a one-line message.
+/// `text` as error messages echo it: control characters (a line break, say) escaped, so
+/// the message stays one line, and whole up to [`ECHO_MAX_CHARS`] characters, else its start
+/// and its length, so that a multi-megabyte value gives a short message.
 ///
 /// ```
 /// use flashduty::units::clip;
 /// assert_eq!(clip("toluene"), "toluene");
+/// assert_eq!(clip("2#\n/h"), "2#\\n/h");
 /// let long = "x".repeat(1_000_000);
 /// assert_eq!(clip(&long), format!("{}... (1000000 characters)", "x".repeat(57)));
 /// ```
 pub fn clip(text: &str) -> std::borrow::Cow<'_, str> {
-    if text.len() <= ECHO_MAX_CHARS || text.chars().count() <= ECHO_MAX_CHARS {
+    let plain = !text.chars().any(char::is_control);
+    if plain && (text.len() <= ECHO_MAX_CHARS || text.chars().count() <= ECHO_MAX_CHARS) {
         return std::borrow::Cow::Borrowed(text);
     }
-    let start: String = text.chars().take(ECHO_MAX_CHARS - 3).collect();
-    std::borrow::Cow::Owned(format!("{start}... ({} characters)", text.chars().count()))
+    let escaped: String = text
+        .chars()
+        .take(4 * ECHO_MAX_CHARS)
+        .flat_map(|c| {
+            if c.is_control() {
+                c.escape_default().collect::<Vec<char>>()
+            } else {
+                vec![c]
+            }
+        })
+        .collect();
+    let count = text.chars().count();
+    if count <= ECHO_MAX_CHARS && escaped.chars().count() <= 4 * ECHO_MAX_CHARS {
+        return std::borrow::Cow::Owned(escaped);
+    }
+    let start: String = escaped.chars().take(ECHO_MAX_CHARS - 3).collect();
+    std::borrow::Cow::Owned(format!("{start}... ({count} characters)"))
 }
 /// Molar gas constant, J/(mol·K) (CODATA 2018; exact since the 2019 SI redefinition): the
 /// one definition the crate uses.
@@ -648,5 +666,23 @@ mod tests {
             MassFlow::parse("flow", "1 kg/h").unwrap().to_molar(0.0).unwrap_err(),
             UnitError::OutOfRange { .. }
         ));
+    }
+}
+
+#[cfg(test)]
+mod fuzz_regressions {
+    use super::*;
+
+    /// Found by the `units` fuzz target (cargo fuzz, 2026-12-03): a line break in the text
+    /// was echoed into the message, which must stay one line.
+    #[test]
+    fn messages_stay_one_line() {
+        let text = "(\u{0}\u{0}\n2#/h\u{0}\u{0}";
+        for kind in [QuantityKind::Temperature, QuantityKind::MolarFlow, QuantityKind::Power] {
+            let e = parse_si(kind, "field", text).unwrap_err();
+            assert!(!e.to_string().contains('\n'), "{e}");
+        }
+        let e = parse_si(QuantityKind::Pressure, "P", "5 bar\nx").unwrap_err();
+        assert!(!e.to_string().contains('\n'), "{e}");
     }
 }
