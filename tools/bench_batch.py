@@ -20,19 +20,12 @@ import tempfile
 import time
 
 import numpy as np
-from scipy.optimize import brentq
+
+# The same Python loop as the package's benchmark (this folder is on the import path when
+# the script is run).
+from bench_python import rr_brentq
 
 ROOT = pathlib.Path(__file__).resolve().parents[1]
-
-
-def rr_brentq(z, k):
-    f = lambda b: np.sum(z * (k - 1) / (1 + b * (k - 1)))  # noqa: E731
-    if f(0.0) <= 0:
-        return 0.0
-    if f(1.0) >= 0:
-        return 1.0
-    lo, hi = 1 / (1 - k.max()), 1 / (1 - k.min())
-    return brentq(f, max(0.0, lo + 1e-12), min(1.0, hi - 1e-12), xtol=1e-15)
 
 
 def run(tool, path, out):

@@ -158,6 +158,17 @@ fn first_error<T>(results: Vec<Result<T, (usize, Failure)>>) -> Result<Vec<T>, F
 /// One row's T–P flash: (phase, β, 1 − β, x, y).
 type FlashRow = (i8, f64, f64, Vec<f64>, Vec<f64>);
 
+/// A split and its compositions as a [`FlashRow`].
+fn flash_row(s: &flashduty::rachford_rice::SplitSummary, x: &[f64], y: &[f64]) -> FlashRow {
+    (
+        phase_code(s.phase),
+        s.vapour_fraction,
+        s.liquid_fraction,
+        x.to_vec(),
+        y.to_vec(),
+    )
+}
+
 /// T–P flashes of `components` with feeds `z` (N, n) at temperatures `t_k` (N,) and
 /// pressures `p_pa` (N,), in parallel without the GIL. Returns a dict of arrays.
 #[pyfunction]
@@ -195,13 +206,7 @@ fn flash_batch<'py>(
                         let t = Temperature::new("T", ts[r]).map_err(|e| (r, lib_error(e)))?;
                         let p = Pressure::new("P", ps[r]).map_err(|e| (r, lib_error(e)))?;
                         let s = tp_flash_into(&model, zr, t, p, kv, x, y).map_err(|e| (r, lib_error(e)))?;
-                        Ok((
-                            phase_code(s.phase),
-                            s.vapour_fraction,
-                            s.liquid_fraction,
-                            x.clone(),
-                            y.clone(),
-                        ))
+                        Ok(flash_row(&s, x, y))
                     },
                 )
                 .collect();
@@ -267,13 +272,7 @@ fn rachford_rice_batch<'py>(
                             y,
                         )
                         .map_err(|e| (r, lib_error(e)))?;
-                        Ok((
-                            phase_code(s.phase),
-                            s.vapour_fraction,
-                            s.liquid_fraction,
-                            x.clone(),
-                            y.clone(),
-                        ))
+                        Ok(flash_row(&s, x, y))
                     },
                 )
                 .collect();
