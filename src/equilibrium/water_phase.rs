@@ -669,20 +669,26 @@ pub(crate) fn water_flash_into<M: KValueModel + ?Sized>(
         FlashSpec::TemperaturePressure { temperature, pressure } => {
             w.write(temperature.kelvin(), pressure.pascal(), [None; 3], None, out)
         }
-        FlashSpec::BubbleTemperature { pressure } => pressure_vapour_fraction(&mut w, pressure.pascal(), 0.0, out),
-        FlashSpec::DewTemperature { pressure } => pressure_vapour_fraction(&mut w, pressure.pascal(), 1.0, out),
+        FlashSpec::BubbleTemperature { pressure } => {
+            held_vapour_fraction(&mut w, Held::Pressure(pressure.pascal()), 0.0, out)
+        }
+        FlashSpec::DewTemperature { pressure } => {
+            held_vapour_fraction(&mut w, Held::Pressure(pressure.pascal()), 1.0, out)
+        }
         FlashSpec::PressureVapourFraction {
             pressure,
             vapour_fraction,
-        } => pressure_vapour_fraction(&mut w, pressure.pascal(), vapour_fraction, out),
+        } => held_vapour_fraction(&mut w, Held::Pressure(pressure.pascal()), vapour_fraction, out),
         FlashSpec::BubblePressure { temperature } => {
-            temperature_vapour_fraction(&mut w, temperature.kelvin(), 0.0, out)
+            held_vapour_fraction(&mut w, Held::Temperature(temperature.kelvin()), 0.0, out)
         }
-        FlashSpec::DewPressure { temperature } => temperature_vapour_fraction(&mut w, temperature.kelvin(), 1.0, out),
+        FlashSpec::DewPressure { temperature } => {
+            held_vapour_fraction(&mut w, Held::Temperature(temperature.kelvin()), 1.0, out)
+        }
         FlashSpec::TemperatureVapourFraction {
             temperature,
             vapour_fraction,
-        } => temperature_vapour_fraction(&mut w, temperature.kelvin(), vapour_fraction, out),
+        } => held_vapour_fraction(&mut w, Held::Temperature(temperature.kelvin()), vapour_fraction, out),
     }
 }
 
@@ -700,39 +706,33 @@ fn no_bubble_point(w: &Work<'_, impl KValueModel + ?Sized>) -> Option<FlashError
         })
 }
 
-fn pressure_vapour_fraction<M: KValueModel + ?Sized>(
-    w: &mut Work<'_, M>,
-    p: f64,
-    beta: f64,
-    out: &mut SolvedFlash,
-) -> Result<(), FlashError> {
-    if beta == 1.0 {
-        let (t, k) = w.dew_t(p)?;
-        return w.write(t, p, [Some(1.0), Some(0.0), Some(0.0)], Some(k), out);
-    }
-    if beta == 0.0
-        && let Some(e) = no_bubble_point(w)
-    {
-        return Err(e);
-    }
-    let what = if beta == 0.0 {
-        "bubble temperature"
-    } else {
-        "P-vapour fraction flash"
-    };
-    let t = w.search_t(p, what, |s, t| Ok((s.vapour_excess(t, p, beta)?, f64::NAN)))?;
-    w.write(t, p, [Some(beta), None, None], (beta == 0.0).then_some(V), out)?;
-    Ok(())
+/// What a vapour-fraction specification holds: the pressure (T is found) or the
+/// temperature (P is found).
+#[derive(Debug, Clone, Copy)]
+enum Held {
+    Pressure(f64),
+    Temperature(f64),
 }
 
-fn temperature_vapour_fraction<M: KValueModel + ?Sized>(
+/// The state at the held pressure or temperature with vapour fraction `beta`: the dew point
+/// at 1, the bubble point at 0, else the search on the other variable.
+fn held_vapour_fraction<M: KValueModel + ?Sized>(
     w: &mut Work<'_, M>,
-    t: f64,
+    held: Held,
     beta: f64,
     out: &mut SolvedFlash,
 ) -> Result<(), FlashError> {
     if beta == 1.0 {
-        let (p, k) = w.dew_p(t)?;
+        let (t, p, k) = match held {
+            Held::Pressure(p) => {
+                let (t, k) = w.dew_t(p)?;
+                (t, p, k)
+            }
+            Held::Temperature(t) => {
+                let (p, k) = w.dew_p(t)?;
+                (t, p, k)
+            }
+        };
         return w.write(t, p, [Some(1.0), Some(0.0), Some(0.0)], Some(k), out);
     }
     if beta == 0.0
@@ -740,12 +740,26 @@ fn temperature_vapour_fraction<M: KValueModel + ?Sized>(
     {
         return Err(e);
     }
-    let what = if beta == 0.0 {
-        "bubble pressure"
-    } else {
-        "T-vapour fraction flash"
+    let (t, p) = match held {
+        Held::Pressure(p) => {
+            let what = if beta == 0.0 {
+                "bubble temperature"
+            } else {
+                "P-vapour fraction flash"
+            };
+            let t = w.search_t(p, what, |s, t| Ok((s.vapour_excess(t, p, beta)?, f64::NAN)))?;
+            (t, p)
+        }
+        Held::Temperature(t) => {
+            let what = if beta == 0.0 {
+                "bubble pressure"
+            } else {
+                "T-vapour fraction flash"
+            };
+            let p = w.search_p(what, |s, p| Ok((-s.vapour_excess(t, p, beta)?, f64::NAN)))?;
+            (t, p)
+        }
     };
-    let p = w.search_p(what, |s, p| Ok((-s.vapour_excess(t, p, beta)?, f64::NAN)))?;
     w.write(t, p, [Some(beta), None, None], (beta == 0.0).then_some(V), out)
 }
 
