@@ -28,4 +28,4 @@ pub mod run;
 
 pub use error::{CaseError, CaseResult};
 pub use parse::{Case, Command, TOP_KEYS, parse_case, parse_text};
-pub use run::{CAUTION, Outcome, TYPED_SUM_TOLERANCE, components, run};
+pub use run::{CAUTION, Outcome, TYPED_SUM_TOLERANCE, components, run, typed_z};

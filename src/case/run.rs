@@ -49,8 +49,18 @@ pub struct Feed {
 pub const TYPED_SUM_TOLERANCE: f64 = 1e-3;
 
 /// Mole fractions as typed: refused where their sum is more than [`TYPED_SUM_TOLERANCE`]
-/// from 1, normalised with a warning where it is off at all (beyond round-off).
-fn typed_z(z: &[f64], warnings: &mut Vec<Warning>) -> CaseResult<Vec<f64>> {
+/// from 1, normalised with a [`Warning::CompositionNormalised`] added to `warnings` where
+/// it is off at all (beyond round-off). Front ends that take z outside a case (the tool's
+/// batch fast path) call it too, so they normalise exactly as a case does.
+///
+/// ```
+/// use flashduty::case::typed_z;
+/// let mut w = Vec::new();
+/// let z = typed_z(&[0.3333, 0.3333, 0.3333], &mut w).unwrap();
+/// assert!((z.iter().sum::<f64>() - 1.0).abs() < 1e-15 && w.len() == 1);
+/// assert_eq!(typed_z(&[0.5, 0.4], &mut w).unwrap_err().kind(), "mole-fraction-sum");
+/// ```
+pub fn typed_z(z: &[f64], warnings: &mut Vec<Warning>) -> CaseResult<Vec<f64>> {
     let sum: f64 = z.iter().sum();
     if !sum.is_finite() || (sum - 1.0).abs() > TYPED_SUM_TOLERANCE {
         return Err(CaseError::with_kind(
@@ -703,6 +713,19 @@ pub fn state_json(names: Option<&[String]>, s: &State) -> Value {
     v
 }
 
+impl Feed {
+    /// An enthalpy-table row's flow in `unit` (the unit the input's flow was typed in), mass
+    /// units through the row's component's molar mass.
+    pub fn row_flow_in_unit(&self, row: &EnthalpyRow, unit: &str) -> Option<f64> {
+        let molar_mass = self
+            .stream
+            .as_ref()
+            .and_then(|s| s.components().iter().find(|c| c.name() == row.component))
+            .map(|c| c.molar_mass_g_per_mol() * 1e-3);
+        flow_in_unit(row.flow_mol_s, molar_mass, unit)
+    }
+}
+
 /// A component's molar flow (mol/s) in the unit the input's flow was given in: a molar
 /// unit directly, a mass unit through the molar mass (kg/mol).
 pub fn flow_in_unit(flow_mol_s: f64, molar_mass_kg_per_mol: Option<f64>, unit: &str) -> Option<f64> {
@@ -802,18 +825,11 @@ impl Outcome {
                     .iter()
                     .map(|row| {
                         let mut v = row_json(row);
-                        if let (Value::Object(m), Some(unit), Some(stream)) =
-                            (&mut v, &d.feed.flow_unit, &d.feed.stream)
+                        if let (Value::Object(m), Some(unit)) = (&mut v, &d.feed.flow_unit)
+                            && let Some(x) = d.feed.row_flow_in_unit(row, unit)
                         {
-                            let molar_mass = stream
-                                .components()
-                                .iter()
-                                .find(|c| c.name() == row.component)
-                                .map(|c| c.molar_mass_g_per_mol() * 1e-3);
-                            if let Some(x) = flow_in_unit(row.flow_mol_s, molar_mass, unit) {
-                                m.insert("flow_in_unit".into(), json!(x));
-                                m.insert("flow_unit".into(), json!(unit));
-                            }
+                            m.insert("flow_in_unit".into(), json!(x));
+                            m.insert("flow_unit".into(), json!(unit));
                         }
                         v
                     })

@@ -299,21 +299,13 @@ impl GivenK {
         }
         let z = Self::list(row.cells.get(self.z)?)?;
         let k = Self::list(row.cells.get(self.k)?)?;
-        let sum: f64 = z.iter().sum();
-        // (Every value is finite, so the sum is.)
-        if z.is_empty() || z.len() != k.len() || (sum - 1.0).abs() > flashduty::case::TYPED_SUM_TOLERANCE {
+        if z.is_empty() || z.len() != k.len() {
             return None;
         }
-        // As the case schema does: typed mole fractions off by more than round-off are
-        // normalised, with the warning that gives their sum.
-        let (z, warning) = if (sum - 1.0).abs() > 1e-9 {
-            (
-                z.iter().map(|v| v / sum).collect(),
-                flashduty::warnings::Warning::CompositionNormalised { sum }.to_string(),
-            )
-        } else {
-            (z, String::new())
-        };
+        // The case schema's own normalisation of typed mole fractions, and its warning.
+        let mut warnings = Vec::new();
+        let z = flashduty::case::typed_z(&z, &mut warnings).ok()?;
+        let warning = warnings.first().map(ToString::to_string).unwrap_or_default();
         let s = flashduty::rachford_rice::rachford_rice(&z, &k).ok()?;
         // The line is written straight into one buffer; numbers as serde_json prints them
         // (the general path's cells), lists joined by ';', text quoted as the csv writer

@@ -431,13 +431,7 @@ pub fn duty_body(out: &mut String, d: &DutyOutcome) {
             num(row.flow_mol_s, 6),
         ];
         if let Some(u) = &unit {
-            let molar_mass = d
-                .feed
-                .stream
-                .as_ref()
-                .and_then(|s| s.components().iter().find(|c| c.name() == row.component))
-                .map(|c| c.molar_mass_g_per_mol() * 1e-3);
-            cells.push(crate::compute::flow_in_unit(row.flow_mol_s, molar_mass, u).map_or("-".into(), |x| num(x, 6)));
+            cells.push(d.feed.row_flow_in_unit(row, u).map_or("-".into(), |x| num(x, 6)));
         }
         cells.extend([
             fixed(row.liquid_sensible_j_per_mol, 1),
