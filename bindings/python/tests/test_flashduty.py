@@ -4,14 +4,20 @@ kind and field, and the hostile inputs the tool's tests use."""
 
 import json
 import math
+import pathlib
+import sys
 import subprocess
 import threading
 
 import numpy as np
 import pytest
-from scipy.optimize import brentq
 
 import flashduty
+
+# The Rachford-Rice root by scipy's brentq, a reference outside the project: the same loop
+# as the package's benchmark (tools/bench_python.py).
+sys.path.insert(0, str(pathlib.Path(__file__).resolve().parents[3] / "tools"))
+from bench_python import rr_brentq  # noqa: E402
 
 # (file, command, components file): every case example the tool runs.
 EXAMPLES = [
@@ -138,17 +144,6 @@ def test_batch_errors_name_the_row():
         flashduty.flash_batch(["benzene", "unobtainium"], z, 360.0, 1e5)
     with pytest.raises(flashduty.FlashdutyError):
         flashduty.duty_batch(["water", "ethanol"], [0.5, 0.5], 1.0, 300, 1e5, 350, 1e5, water_phase="immiscible")
-
-
-def rr_brentq(z, k):
-    """The Rachford-Rice root by scipy's brentq, a reference outside the project."""
-    f = lambda b: np.sum(z * (k - 1) / (1 + b * (k - 1)))  # noqa: E731
-    if f(0.0) <= 0:
-        return 0.0
-    if f(1.0) >= 0:
-        return 1.0
-    lo, hi = 1 / (1 - k.max()), 1 / (1 - k.min())
-    return brentq(f, max(0.0, lo + 1e-12), min(1.0, hi - 1e-12), xtol=1e-15, rtol=4 * np.finfo(float).eps)
 
 
 def random_given_k(rng, rows, n):
