@@ -23,6 +23,7 @@
 #![deny(missing_docs)]
 #![deny(unsafe_code)]
 
+pub mod activity;
 pub mod case;
 mod difference;
 pub mod energy;
