@@ -160,6 +160,59 @@ pub enum Warning {
         /// Its solubility in water at 25 °C, mass %, where recorded.
         solubility_mass_percent: Option<f64>,
     },
+    /// The feed holds a pair whose liquid the library knows to be strongly non-ideal (its
+    /// built-in NRTL parameters give an activity coefficient at infinite dilution above 1.5
+    /// or below 1/1.5 at 25 °C, or an azeotrope), and the result takes the liquid as ideal.
+    ///
+    /// ```
+    /// use flashduty::warnings::Warning;
+    /// let w = Warning::NonIdealLiquid { first: "ethanol".into(), second: "water".into() };
+    /// assert!(w.to_string().contains("liquid_model"));
+    /// assert!(serde_json::to_string(&w).unwrap().contains("\"kind\":\"non-ideal-liquid\""));
+    /// ```
+    NonIdealLiquid {
+        /// One component of the pair.
+        first: String,
+        /// The other.
+        second: String,
+    },
+    /// An activity model has no parameters for a pair of the feed: the pair is taken as
+    /// ideal (zero interaction energies).
+    ///
+    /// ```
+    /// use flashduty::warnings::Warning;
+    /// let w = Warning::PairWithoutParameters { model: "nrtl", first: "benzene".into(), second: "toluene".into() };
+    /// assert!(w.to_string().contains("benzene–toluene"));
+    /// ```
+    PairWithoutParameters {
+        /// The liquid model.
+        model: &'static str,
+        /// One component of the pair.
+        first: String,
+        /// The other.
+        second: String,
+    },
+    /// A pair's activity-model parameters are used outside the temperature range of the
+    /// data they were fitted to.
+    ///
+    /// ```
+    /// use flashduty::warnings::Warning;
+    /// let w = Warning::PairParametersExtrapolated { first: "ethanol".into(), second: "water".into(),
+    ///     range_min_k: 351.3, range_max_k: 373.2, temperature_k: 300.0 };
+    /// assert!(w.to_string().contains("351.3"));
+    /// ```
+    PairParametersExtrapolated {
+        /// One component of the pair.
+        first: String,
+        /// The other.
+        second: String,
+        /// Low end of the data's range, K.
+        range_min_k: f64,
+        /// High end of the data's range, K.
+        range_max_k: f64,
+        /// The temperature they were used at, K.
+        temperature_k: f64,
+    },
 }
 
 impl fmt::Display for Warning {
@@ -254,6 +307,24 @@ impl fmt::Display for Warning {
                     "{component}: its miscibility with water is not recorded; it is put in the water-immiscible organic liquid"
                 ),
             },
+            Warning::NonIdealLiquid { first, second } => write!(
+                f,
+                "{first} and {second} form a strongly non-ideal liquid, which Raoult's law (an ideal liquid) misses: bubble and dew points can be off by several kelvin and azeotropes are not found; set \"liquid_model\": \"nrtl\" (or wilson, uniquac)"
+            ),
+            Warning::PairWithoutParameters { model, first, second } => write!(
+                f,
+                "{model}: no parameters for the pair {first}–{second}; it is taken as ideal (give them in binary_parameters)"
+            ),
+            Warning::PairParametersExtrapolated {
+                first,
+                second,
+                range_min_k,
+                range_max_k,
+                temperature_k,
+            } => write!(
+                f,
+                "the {first}–{second} parameters were fitted to data from {range_min_k:.1} K to {range_max_k:.1} K and are used at {temperature_k:.2} K (extrapolated)"
+            ),
         }
     }
 }
@@ -292,6 +363,23 @@ pub(crate) fn push_unique(list: &mut Vec<Warning>, w: Warning) {
             Warning::PartlyMiscibleWithWater { component: c1, .. },
             Warning::PartlyMiscibleWithWater { component: c2, .. },
         ) => c1 == c2,
+        (Warning::NonIdealLiquid { first: a1, second: b1 }, Warning::NonIdealLiquid { first: a2, second: b2 })
+        | (
+            Warning::PairWithoutParameters {
+                first: a1, second: b1, ..
+            },
+            Warning::PairWithoutParameters {
+                first: a2, second: b2, ..
+            },
+        )
+        | (
+            Warning::PairParametersExtrapolated {
+                first: a1, second: b1, ..
+            },
+            Warning::PairParametersExtrapolated {
+                first: a2, second: b2, ..
+            },
+        ) => a1 == a2 && b1 == b2,
         _ => false,
     };
     if !list.iter().any(same) {

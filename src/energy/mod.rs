@@ -46,7 +46,8 @@
 //! Files: `stream.rs` ([`Stream`], [`StreamState`]), `reference.rs` (reference state,
 //! vaporisation path, vapour model), `options.rs` ([`DutyOptions`]), `phase_enthalpy.rs`
 //! (the [`PhaseEnthalpyModel`] trait), `ideal.rs` ([`EnthalpyModel`], ideal mixing),
-//! `path_table.rs` (its per-component constants), `departure.rs` (the second-virial
+//! `path_table.rs` (its per-component constants), `excess.rs` ([`ExcessEnthalpyModel`], the
+//! excess enthalpy of an activity model's liquid), `departure.rs` (the second-virial
 //! vapour), `range_warnings.rs` (correlation range warnings), `calc.rs` (the one calculation
 //! behind every entry point), `uniqueness.rs` (several outlets for one duty), `result.rs`
 //! (results and [`EnergyError`]), `duty.rs` (the full functions), `duty_calculator.rs`
@@ -56,6 +57,7 @@ mod calc;
 mod departure;
 mod duty;
 mod duty_calculator;
+mod excess;
 mod ideal;
 mod options;
 mod path_table;
@@ -71,6 +73,7 @@ pub use duty::{
     path_spread,
 };
 pub use duty_calculator::{DutyCalculator, DutySummary, StateSummary};
+pub use excess::ExcessEnthalpyModel;
 pub use ideal::{EnthalpyModel, EnthalpySplit};
 pub use options::DutyOptions;
 pub use phase_enthalpy::PhaseEnthalpyModel;

@@ -206,6 +206,7 @@ pub(crate) fn flash_into<M: KValueModel + ?Sized>(
     }
     Err(FlashError::NotConverged {
         what: spec.name(),
+        state: spec.given(),
         rounds,
     })
 }

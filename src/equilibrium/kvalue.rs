@@ -249,6 +249,31 @@ impl Raoult {
     pub fn components(&self) -> &[Arc<Component>] {
         &self.components
     }
+
+    /// The warning that water and a water-immiscible component in one liquid likely form two.
+    pub(crate) fn second_liquid_warning(&self, z: &[f64], out: &mut Vec<Warning>) {
+        let has = |i: usize| z.get(i).is_some_and(|&v| v > 0.0);
+        let Some(water) = self
+            .components
+            .iter()
+            .position(|c| c.cas() == crate::equilibrium::WATER_CAS)
+        else {
+            return;
+        };
+        if !has(water) {
+            return;
+        }
+        let immiscible: Vec<String> = (0..self.components.len())
+            .filter(|&i| {
+                has(i)
+                    && self.components[i].water_miscibility() == Some(crate::properties::WaterMiscibility::Immiscible)
+            })
+            .map(|i| self.components[i].name().to_string())
+            .collect();
+        if !immiscible.is_empty() {
+            push_unique(out, Warning::SecondLiquidLikely { components: immiscible });
+        }
+    }
 }
 
 impl KValueModel for Raoult {
@@ -306,27 +331,25 @@ impl KValueModel for Raoult {
         }
     }
 
+    /// The second-liquid warning (water with immiscible components) and, for a pair the
+    /// library knows to be strongly non-ideal, the non-ideal-liquid warning.
     fn feed_warnings(&self, z: &[f64], out: &mut Vec<Warning>) {
+        self.second_liquid_warning(z, out);
         let has = |i: usize| z.get(i).is_some_and(|&v| v > 0.0);
-        let Some(water) = self
-            .components
-            .iter()
-            .position(|c| c.cas() == crate::equilibrium::WATER_CAS)
-        else {
-            return;
-        };
-        if !has(water) {
-            return;
-        }
-        let immiscible: Vec<String> = (0..self.components.len())
-            .filter(|&i| {
-                has(i)
-                    && self.components[i].water_miscibility() == Some(crate::properties::WaterMiscibility::Immiscible)
-            })
-            .map(|i| self.components[i].name().to_string())
-            .collect();
-        if !immiscible.is_empty() {
-            push_unique(out, Warning::SecondLiquidLikely { components: immiscible });
+        let find = |name: &str| self.components.iter().position(|c| c.name().eq_ignore_ascii_case(name));
+        for (a, b) in super::modified_raoult::strongly_non_ideal_pairs() {
+            if let (Some(i), Some(j)) = (find(a), find(b))
+                && has(i)
+                && has(j)
+            {
+                push_unique(
+                    out,
+                    Warning::NonIdealLiquid {
+                        first: self.components[i].name().to_string(),
+                        second: self.components[j].name().to_string(),
+                    },
+                );
+            }
         }
     }
 

@@ -46,21 +46,26 @@
 //! ([`WaterPhase`] and [`flash_with_water`]: an immiscible water phase beside the organic
 //! liquid, every specification above with up to three phases).
 
+mod azeotrope;
 mod flash;
 mod kvalue;
+mod modified_raoult;
 mod search;
 mod sensitivity;
 mod spec;
 mod tp_flasher;
 mod water_phase;
 
+pub use azeotrope::{Azeotrope, AzeotropeCondition, azeotropes};
 pub use flash::{flash, tp_flash};
 pub use kvalue::{GivenK, KValueModel, KValues, Raoult};
+pub use modified_raoult::ModifiedRaoult;
 pub use spec::{FlashError, FlashResult, FlashSpec, SEARCH_MAX_TEMPERATURE_K, SEARCH_MIN_TEMPERATURE_K, Sensitivity};
 pub use tp_flasher::{TpFlasher, tp_flash_into};
 pub use water_phase::{WATER_CAS, WaterPhase, WaterSplit, flash_with_water};
 
 pub(crate) use flash::{SolvedFlash, flash_into, flash_result, saturation_temperature};
+pub(crate) use modified_raoult::component_keys;
 pub(crate) use sensitivity::{amount_slopes, sensitivity};
 pub(crate) use water_phase::{
     Liquid, liquid_appearance_temperature, water_flash_into, water_flash_result, water_warnings,

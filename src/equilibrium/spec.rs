@@ -183,10 +183,14 @@ pub enum FlashError {
         component: String,
     },
     /// A composition-dependent model's outer loop did not settle.
-    #[error("{what}: the composition loop did not converge in {rounds} rounds")]
+    #[error(
+        "{what} at {state}: the composition loop did not converge in {rounds} rounds (no result is given rather than an unsettled one)"
+    )]
     NotConverged {
         /// The specification.
         what: &'static str,
+        /// The given state and the last compositions tried, e.g. `T = 350 K, P = 101325 Pa`.
+        state: String,
         /// Rounds taken.
         rounds: u32,
     },
@@ -218,6 +222,29 @@ impl FlashError {
 }
 
 impl FlashSpec {
+    /// The given values, for messages: `T = 350 K, P = 101325 Pa`.
+    pub(crate) fn given(&self) -> String {
+        match *self {
+            FlashSpec::TemperaturePressure { temperature, pressure } => {
+                format!("T = {} K, P = {} Pa", temperature.kelvin(), pressure.pascal())
+            }
+            FlashSpec::BubbleTemperature { pressure } | FlashSpec::DewTemperature { pressure } => {
+                format!("P = {} Pa", pressure.pascal())
+            }
+            FlashSpec::BubblePressure { temperature } | FlashSpec::DewPressure { temperature } => {
+                format!("T = {} K", temperature.kelvin())
+            }
+            FlashSpec::TemperatureVapourFraction {
+                temperature,
+                vapour_fraction,
+            } => format!("T = {} K, vapour fraction {vapour_fraction}", temperature.kelvin()),
+            FlashSpec::PressureVapourFraction {
+                pressure,
+                vapour_fraction,
+            } => format!("P = {} Pa, vapour fraction {vapour_fraction}", pressure.pascal()),
+        }
+    }
+
     pub(crate) fn name(&self) -> &'static str {
         match self {
             FlashSpec::TemperaturePressure { .. } => "T-P flash",
