@@ -104,6 +104,7 @@ from_library_error!(
     crate::properties::ComponentError,
     crate::fit::FitError,
     crate::library::UnknownComponent,
+    crate::activity::ActivityError,
 );
 
 /// Shorthand: `bail!("field: ...")` returns a [`CaseError`].

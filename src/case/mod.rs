@@ -27,5 +27,5 @@ pub mod parse;
 pub mod run;
 
 pub use error::{CaseError, CaseResult};
-pub use parse::{Case, Command, TOP_KEYS, parse_case, parse_text};
+pub use parse::{BinaryParametersInput, Case, Command, TOP_KEYS, parse_case, parse_text};
 pub use run::{CAUTION, Outcome, TYPED_SUM_TOLERANCE, components, run, typed_z};

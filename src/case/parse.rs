@@ -6,6 +6,7 @@
 //! `inlet.T`, and indexed for lists, `z[2]`) and the value.
 
 use super::error::{CaseError, CaseResult, bail};
+use crate::activity::{BinaryParameters, LiquidModel};
 use crate::energy::{ReferencePhase, ReferenceState, VaporisationPath, VapourModel};
 use crate::units::{MassFlow, MolarFlow, Power, Pressure, Temperature, UnitError};
 use serde_json::{Map, Value};
@@ -24,16 +25,19 @@ pub enum Command {
     Duty,
     /// Heating or cooling curve.
     Curve,
+    /// The azeotropes of a binary at T or P.
+    Azeotropes,
 }
 
 impl Command {
     /// Every command that takes a case.
-    pub const ALL: [Command; 5] = [
+    pub const ALL: [Command; 6] = [
         Command::Flash,
         Command::Bubble,
         Command::Dew,
         Command::Duty,
         Command::Curve,
+        Command::Azeotropes,
     ];
 
     /// The command's name on the command line.
@@ -44,6 +48,7 @@ impl Command {
             Command::Dew => "dew",
             Command::Duty => "duty",
             Command::Curve => "curve",
+            Command::Azeotropes => "azeotropes",
         }
     }
 
@@ -67,8 +72,21 @@ impl Command {
                 "vapour_fraction",
                 "flow",
                 "water_phase",
+                "liquid_model",
+                "binary_parameters",
             ],
-            Command::Bubble | Command::Dew => &["note", "components", "z", "flows", "T", "P", "flow", "water_phase"],
+            Command::Bubble | Command::Dew => &[
+                "note",
+                "components",
+                "z",
+                "flows",
+                "T",
+                "P",
+                "flow",
+                "water_phase",
+                "liquid_model",
+                "binary_parameters",
+            ],
             Command::Duty => &[
                 "note",
                 "components",
@@ -82,6 +100,8 @@ impl Command {
                 "path",
                 "vapour_model",
                 "water_phase",
+                "liquid_model",
+                "binary_parameters",
             ],
             Command::Curve => &[
                 "note",
@@ -97,7 +117,10 @@ impl Command {
                 "vapour_model",
                 "points",
                 "water_phase",
+                "liquid_model",
+                "binary_parameters",
             ],
+            Command::Azeotropes => &["note", "components", "T", "P", "liquid_model", "binary_parameters"],
         }
     }
 }
@@ -121,6 +144,8 @@ pub const TOP_KEYS: &[&str] = &[
     "vapour_model",
     "points",
     "water_phase",
+    "liquid_model",
+    "binary_parameters",
 ];
 
 /// Keys of a `water_phase` object.
@@ -172,6 +197,10 @@ const ALIASES: &[(&str, &str)] = &[
     ("water", "water_phase"),
     ("free_water", "water_phase"),
     ("aqueous_phase", "water_phase"),
+    ("activity_model", "liquid_model"),
+    ("liquid", "liquid_model"),
+    ("pairs", "binary_parameters"),
+    ("parameters", "binary_parameters"),
 ];
 
 /// A total flow: molar, or mass (converted with the stream's molar mass later).
@@ -243,6 +272,52 @@ pub struct Case {
     pub water_phase: Option<WaterPhaseInput>,
     /// The unit the flow (or the first component flow) was typed in, where one was.
     pub flow_unit: Option<String>,
+    /// The liquid model (`"liquid_model"`; ideal by default).
+    pub liquid_model: LiquidModel,
+    /// Binary parameters given in the case (`"binary_parameters"`): a parameter file's
+    /// path or its content, already checked.
+    pub binary_parameters: Option<BinaryParametersInput>,
+}
+
+/// The `binary_parameters` key: a parameter file (JSON or TOML, by path) or the same
+/// content inline. Either adds to (and for the same pair replaces) the built-in set.
+#[derive(Debug, Clone, PartialEq)]
+pub enum BinaryParametersInput {
+    /// A file path.
+    File(String),
+    /// The parameter object itself.
+    Inline(Value),
+}
+
+impl BinaryParametersInput {
+    /// The built-in set with these parameters added.
+    ///
+    /// # Errors
+    /// The parameter file's error, its field named.
+    pub fn load(&self) -> CaseResult<BinaryParameters> {
+        let mut set = BinaryParameters::builtin().clone();
+        match self {
+            Self::File(path) => set.add_path(std::path::Path::new(path))?,
+            Self::Inline(v) => set.add_value("binary_parameters", v)?,
+        };
+        Ok(set)
+    }
+}
+
+/// `binary_parameters`: a path or an object, checked by loading it.
+fn binary_parameters(v: &Value) -> CaseResult<BinaryParametersInput> {
+    let input = match v {
+        Value::String(path) => BinaryParametersInput::File(path.clone()),
+        Value::Object(_) => BinaryParametersInput::Inline(v.clone()),
+        Value::Array(_) => BinaryParametersInput::Inline(serde_json::json!({ "pairs": v })),
+        other => bail!(
+            "binary_parameters: expected a parameter file's path or an object with pairs, got {} {}",
+            kind_of(other),
+            show(other)
+        ),
+    };
+    input.load()?;
+    Ok(input)
 }
 
 /// The unit of a quantity typed as text (`"3.6 kmol/h"` gives `kmol/h`), if any.
@@ -925,8 +1000,30 @@ pub fn parse_case(value: &Value, command: Command) -> CaseResult<Case> {
             "vapour_model" => case.vapour_model = Some(vapour_model(v)?),
             "points" => case.points = Some(points("points", v)?),
             "water_phase" => case.water_phase = water_phase(v)?,
+            "liquid_model" => {
+                case.liquid_model = match v {
+                    Value::String(s) => s.parse()?,
+                    other => bail!(
+                        "liquid_model: expected text (ideal, wilson, nrtl or uniquac), got {} {}",
+                        kind_of(other),
+                        show(other)
+                    ),
+                }
+            }
+            "binary_parameters" => case.binary_parameters = Some(binary_parameters(v)?),
             _ => return Err(unknown_key("", key, TOP_KEYS)),
         }
+    }
+    if case.binary_parameters.is_some() && case.liquid_model == LiquidModel::Ideal {
+        bail!("binary_parameters: given, but liquid_model is ideal (set liquid_model to wilson, nrtl or uniquac)");
+    }
+    if case.k.is_some() && case.liquid_model != LiquidModel::Ideal {
+        bail!("liquid_model: not used with given K-values (the K-values already hold the liquid's non-ideality)");
+    }
+    if case.water_phase.is_some() && case.liquid_model != LiquidModel::Ideal {
+        bail!(
+            "liquid_model: the immiscible water phase takes an ideal organic liquid; give one of water_phase and liquid_model"
+        );
     }
     // Negative K-values and mole fractions are named here with their field; sums and
     // lengths are checked where the feed is built.

@@ -4,12 +4,14 @@
 
 use super::error::{CaseError, CaseResult, bail};
 use super::parse::{Case, Command, ComponentFlow, StateInput, TotalFlow, WaterPhaseInput};
+use crate::activity::{BinaryParameters, LiquidModel};
 use crate::energy::{
-    Curve, DutyOptions, DutyResult, EnthalpyRow, Stream, StreamState, VapourModel, heater_duty, heating_curve,
-    outlet_for_duty,
+    Curve, DutyOptions, DutyResult, EnthalpyModel, EnthalpyRow, ExcessEnthalpyModel, Stream, StreamState, VapourModel,
+    heater_duty, heater_duty_with, heating_curve, heating_curve_with, outlet_for_duty, outlet_for_duty_with,
 };
 use crate::equilibrium::{
-    FlashResult, FlashSpec, Raoult, Sensitivity, WATER_CAS, WaterPhase, WaterSplit, flash, flash_with_water,
+    Azeotrope, AzeotropeCondition, FlashResult, FlashSpec, KValueModel, ModifiedRaoult, Raoult, Sensitivity, WATER_CAS,
+    WaterPhase, WaterSplit, azeotropes, component_keys, flash, flash_with_water,
 };
 use crate::library::Library;
 use crate::properties::Component;
@@ -21,7 +23,8 @@ use std::sync::Arc;
 
 /// The caution every human-readable report and the help end with.
 pub const CAUTION: &str = "Caution: these results are estimates from ideal-mixture models (Raoult's law, \
-ideal liquid, ideal-gas vapour, at most a second-virial correction to the vapour's enthalpy). Check that the models suit your mixture and conditions; equipment design and \
+ideal liquid, ideal-gas vapour, at most a second-virial correction to the vapour's enthalpy) or, where a liquid model \
+is named, from an activity-coefficient model whose parameters are fitted to limited data. Check that the models suit your mixture and conditions; equipment design and \
 operation follow the applicable local codes and the judgement of a qualified, licensed engineer.";
 
 /// Default number of curve points.
@@ -42,6 +45,8 @@ pub struct Feed {
     pub warnings: Vec<Warning>,
     /// The unit the total flow (or the component flows) was given in, where one was.
     pub flow_unit: Option<String>,
+    /// The liquid model the case runs with.
+    pub liquid_model: LiquidModel,
 }
 
 /// How far from 1 typed mole fractions may sum and still be normalised (with a warning):
@@ -238,6 +243,21 @@ pub struct CurveOutcome {
     pub vapour_model: VapourModel,
 }
 
+/// What `azeotropes` found.
+#[derive(Debug, Clone)]
+pub struct AzeotropeOutcome {
+    /// The feed (the two components; z is not used).
+    pub feed: Feed,
+    /// The pressure (Pa) or temperature (K) given, as (`"P_Pa"` or `"T_K"`, value).
+    pub given: (&'static str, f64),
+    /// The azeotropes, by rising x of the first component.
+    pub azeotropes: Vec<Azeotrope>,
+    /// The pure components' boiling points (K) or vapour pressures (Pa) at the condition.
+    pub pure: Vec<f64>,
+    /// Warnings of the model at the azeotropes and the pure-component ends.
+    pub warnings: Vec<Warning>,
+}
+
 /// The result of any case command.
 #[derive(Debug, Clone)]
 pub enum Outcome {
@@ -247,6 +267,8 @@ pub enum Outcome {
     Duty(DutyOutcome),
     /// curve.
     Curve(CurveOutcome),
+    /// azeotropes.
+    Azeotropes(AzeotropeOutcome),
 }
 
 /// The library the tool uses: the built-in one plus any `--components` files.
@@ -341,6 +363,7 @@ pub fn feed(lib: &Library, case: &Case) -> CaseResult<Feed> {
         stream: Some(stream),
         warnings,
         flow_unit: case.flow_unit.clone(),
+        liquid_model: case.liquid_model,
     })
 }
 
@@ -463,20 +486,58 @@ fn k_flash(case: &Case) -> CaseResult<FlashOutcome> {
             flow_mol_s: flow,
             warnings,
             flow_unit: None,
+            liquid_model: LiquidModel::Ideal,
         },
         state,
         given_k: true,
     })
 }
 
-fn flash_with(feed: Feed, command: Command, spec_name: &'static str, spec: FlashSpec) -> CaseResult<FlashOutcome> {
+/// The models of a case with a non-ideal liquid (`liquid_model` other than ideal): the
+/// modified Raoult's law and the excess enthalpy of one activity model over the stream's
+/// components, with the case's `binary_parameters` added to the built-in set.
+///
+/// # Errors
+/// A parameter file that cannot be read, a pair naming a component not in the case, or
+/// UNIQUAC without r and q.
+pub fn liquid_models(case: &Case, stream: &Stream) -> CaseResult<Option<(ModifiedRaoult, ExcessEnthalpyModel)>> {
+    if case.liquid_model == LiquidModel::Ideal {
+        return Ok(None);
+    }
+    let set = match &case.binary_parameters {
+        Some(input) => input.load()?,
+        None => BinaryParameters::builtin().clone(),
+    };
+    let comps = stream.components().to_vec();
+    let keys = component_keys(&comps);
+    set.check_user_pairs(|name| {
+        let name = name.trim().to_lowercase();
+        keys.iter().any(|k| k.contains(&name))
+    })?;
+    let k_model = ModifiedRaoult::new(comps.clone(), case.liquid_model, &set)?;
+    let enthalpy = ExcessEnthalpyModel::new(
+        EnthalpyModel::from_options(comps, options(case)),
+        k_model.activity().clone(),
+    )
+    .ok_or_else(|| CaseError::new("liquid_model: the activity model and the stream differ in components"))?;
+    Ok(Some((k_model, enthalpy)))
+}
+
+fn flash_with(
+    feed: Feed,
+    case: &Case,
+    command: Command,
+    spec_name: &'static str,
+    spec: FlashSpec,
+) -> CaseResult<FlashOutcome> {
     let Some(stream) = &feed.stream else {
         bail!("components: missing");
     };
     let model = Raoult::new(stream.components().to_vec());
-    let r = match stream.water_phase() {
-        Some(w) => flash_with_water(&model, w, &feed.z, spec)?,
-        None => flash(&model, &feed.z, spec)?,
+    let r = match (stream.water_phase(), liquid_models(case, stream)?) {
+        (_, Some((k_model, _))) => flash(&k_model, &feed.z, spec)?,
+        (Some(w), None) => flash_with_water(&model, w, &feed.z, spec)?,
+        (None, None) => flash(&model, &feed.z, spec)?,
     };
     let mut state = State::from(&r);
     state.warnings.splice(0..0, feed.warnings.iter().cloned());
@@ -522,7 +583,7 @@ fn flash_case(lib: &Library, case: &Case) -> CaseResult<FlashOutcome> {
             })
         ),
     };
-    flash_with(feed, Command::Flash, name, spec)
+    flash_with(feed, case, Command::Flash, name, spec)
 }
 
 fn saturation_case(lib: &Library, case: &Case, command: Command) -> CaseResult<FlashOutcome> {
@@ -548,7 +609,7 @@ fn saturation_case(lib: &Library, case: &Case, command: Command) -> CaseResult<F
         (Some(_), Some(_)) => bail!("{}: give T or P, not both (the other is found)", command.name()),
         (None, None) => bail!("{}: give T or P (the other is found)", command.name()),
     };
-    flash_with(feed, command, name, spec)
+    flash_with(feed, case, command, name, spec)
 }
 
 fn options(case: &Case) -> DutyOptions {
@@ -576,6 +637,7 @@ fn duty_result(feed: &Feed, case: &Case) -> CaseResult<(DutyResult, bool)> {
         bail!("outlet: missing (give the outlet state, or duty and outlet.P)");
     };
     let opts = options(case);
+    let models = liquid_models(case, stream)?;
     match case.duty {
         Some(duty) => {
             let (None, Some(p), None) = (outlet.t, outlet.p, outlet.vapour_fraction) else {
@@ -584,11 +646,19 @@ fn duty_result(feed: &Feed, case: &Case) -> CaseResult<(DutyResult, bool)> {
                     which(outlet)
                 );
             };
-            Ok((outlet_for_duty(stream, inlet, duty, p, opts)?, true))
+            let r = match &models {
+                Some((k, h)) => outlet_for_duty_with(stream, k, h, inlet, duty, p)?,
+                None => outlet_for_duty(stream, inlet, duty, p, opts)?,
+            };
+            Ok((r, true))
         }
         None => {
             let outlet = stream_state("outlet", outlet)?;
-            Ok((heater_duty(stream, inlet, outlet, opts)?, false))
+            let r = match &models {
+                Some((k, h)) => heater_duty_with(stream, k, h, inlet, outlet)?,
+                None => heater_duty(stream, inlet, outlet, opts)?,
+            };
+            Ok((r, false))
         }
     }
 }
@@ -631,7 +701,10 @@ fn curve_case(lib: &Library, case: &Case, points: Option<usize>) -> CaseResult<C
             pressure: p,
         },
     };
-    let mut curve = heating_curve(stream, inlet, outlet, points, options(case))?;
+    let mut curve = match liquid_models(case, stream)? {
+        Some((k, h)) => heating_curve_with(stream, &k, &h, inlet, outlet, points)?,
+        None => heating_curve(stream, inlet, outlet, points, options(case))?,
+    };
     curve.warnings.splice(0..0, feed.warnings.iter().cloned());
     if curve
         .points
@@ -649,6 +722,70 @@ fn curve_case(lib: &Library, case: &Case, points: Option<usize>) -> CaseResult<C
     })
 }
 
+fn azeotrope_case(lib: &Library, case: &Case) -> CaseResult<AzeotropeOutcome> {
+    let Some(names) = &case.components else {
+        bail!("components: missing (give the two components of the binary)");
+    };
+    if names.len() != 2 {
+        bail!(
+            "components: {} given; azeotropes are listed for a binary (give two)",
+            names.len()
+        );
+    }
+    let comps = components(lib, names)?;
+    let stream = Stream::new(comps.clone(), &[0.5, 0.5], MolarFlow::new("flow", 1.0)?)?;
+    let (condition, given, spec_of) = match (case.t, case.p) {
+        (None, Some(p)) => (
+            AzeotropeCondition::Pressure(p),
+            ("P_Pa", p.pascal()),
+            FlashSpec::BubbleTemperature { pressure: p },
+        ),
+        (Some(t), None) => (
+            AzeotropeCondition::Temperature(t),
+            ("T_K", t.kelvin()),
+            FlashSpec::BubblePressure { temperature: t },
+        ),
+        (Some(_), Some(_)) => bail!("azeotropes: give T or P, not both (the other is found)"),
+        (None, None) => bail!("azeotropes: give T or P (the other is found)"),
+    };
+    let raoult = Raoult::new(comps);
+    let models = liquid_models(case, &stream)?;
+    let model: &dyn KValueModel = match &models {
+        Some((k, _)) => k,
+        None => &raoult,
+    };
+    let azeotropes = azeotropes(model, condition)?;
+    let mut warnings = Vec::new();
+    let mut pure = Vec::new();
+    for z in [[1.0, 0.0], [0.0, 1.0]] {
+        let r = flash(model, &z, spec_of)?;
+        pure.push(if given.0 == "P_Pa" {
+            r.temperature_k
+        } else {
+            r.pressure_pa
+        });
+    }
+    for az in &azeotropes {
+        model.warnings(az.temperature_k, az.pressure_pa, &mut warnings);
+    }
+    model.feed_warnings(&[0.5, 0.5], &mut warnings);
+    Ok(AzeotropeOutcome {
+        feed: Feed {
+            names: Some(stream.components().iter().map(|c| c.name().to_string()).collect()),
+            z: vec![0.5, 0.5],
+            flow_mol_s: None,
+            stream: Some(stream),
+            warnings: Vec::new(),
+            flow_unit: None,
+            liquid_model: case.liquid_model,
+        },
+        given,
+        azeotropes,
+        pure,
+        warnings,
+    })
+}
+
 /// Runs `command` on a checked case. `points` overrides the case's curve points.
 pub fn run(lib: &Library, command: Command, case: &Case, points: Option<usize>) -> CaseResult<Outcome> {
     Ok(match command {
@@ -656,6 +793,7 @@ pub fn run(lib: &Library, command: Command, case: &Case, points: Option<usize>) 
         Command::Bubble | Command::Dew => Outcome::Flash(saturation_case(lib, case, command)?),
         Command::Duty => Outcome::Duty(duty_case(lib, case)?),
         Command::Curve => Outcome::Curve(curve_case(lib, case, points)?),
+        Command::Azeotropes => Outcome::Azeotropes(azeotrope_case(lib, case)?),
     })
 }
 
@@ -777,6 +915,17 @@ impl Outcome {
             Outcome::Flash(f) => f.command,
             Outcome::Duty(_) => Command::Duty,
             Outcome::Curve(_) => Command::Curve,
+            Outcome::Azeotropes(_) => Command::Azeotropes,
+        }
+    }
+
+    /// The feed the outcome is of.
+    pub fn feed(&self) -> &Feed {
+        match self {
+            Outcome::Flash(f) => &f.feed,
+            Outcome::Duty(d) => &d.feed,
+            Outcome::Curve(c) => &c.feed,
+            Outcome::Azeotropes(a) => &a.feed,
         }
     }
 
@@ -890,9 +1039,40 @@ impl Outcome {
                     "warnings": warnings_json(&c.curve.warnings),
                 })
             }
+            Outcome::Azeotropes(a) => {
+                let list: Vec<Value> = a
+                    .azeotropes
+                    .iter()
+                    .map(|az| {
+                        json!({
+                            "x": az.x,
+                            "T_K": az.temperature_k,
+                            "P_Pa": az.pressure_pa,
+                            "kind": if az.maximum_boiling { "maximum-boiling" } else { "minimum-boiling" },
+                        })
+                    })
+                    .collect();
+                let pure_key = if a.given.0 == "P_Pa" {
+                    "pure_boiling_T_K"
+                } else {
+                    "pure_vapour_pressure_Pa"
+                };
+                json!({
+                    "components": a.feed.names,
+                    (a.given.0): a.given.1,
+                    "azeotropes": list,
+                    "count": a.azeotropes.len(),
+                    "azeotrope_T_K": a.azeotropes.iter().map(|z| z.temperature_k).collect::<Vec<_>>(),
+                    "azeotrope_P_Pa": a.azeotropes.iter().map(|z| z.pressure_pa).collect::<Vec<_>>(),
+                    "azeotrope_x1": a.azeotropes.iter().map(|z| z.x[0]).collect::<Vec<_>>(),
+                    (pure_key): a.pure,
+                    "warnings": warnings_json(&a.warnings),
+                })
+            }
         };
         if let Value::Object(m) = &mut v {
             m.insert("command".into(), json!(self.command().name()));
+            m.insert("liquid_model".into(), json!(self.feed().liquid_model.name()));
             m.insert("caution".into(), json!(CAUTION));
         }
         v

@@ -98,6 +98,16 @@ pub enum FitError {
         /// The solver's message.
         message: String,
     },
+    /// A mole fraction outside [0, 1].
+    #[error("data row {row}: {column} = {value} is not a mole fraction (0 to 1)")]
+    MoleFractionRange {
+        /// 1-based data row.
+        row: usize,
+        /// `x1` or `y1`.
+        column: &'static str,
+        /// The value given.
+        value: f64,
+    },
     /// CSV text with no header line.
     #[error("CSV: no header line (expected e.g. '{example}')")]
     CsvNoHeader {
@@ -231,6 +241,7 @@ impl FitError {
             FitError::InvalidExponent { .. } => "invalid-exponent",
             FitError::Degenerate { .. } => "degenerate",
             FitError::Solver { .. } => "solver",
+            FitError::MoleFractionRange { .. } => "mole-fraction-range",
             FitError::CsvNoHeader { .. } => "csv-no-header",
             FitError::CsvMissingColumn { .. } => "csv-missing-column",
             FitError::CsvUnit { .. } => "csv-unit",

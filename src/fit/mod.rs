@@ -50,6 +50,7 @@ mod data;
 mod error;
 mod extended;
 mod least_squares;
+mod pair;
 mod report;
 #[cfg(test)]
 mod tests;
@@ -61,6 +62,7 @@ pub use csv::read_points_csv;
 pub use data::{DataKind, DataPoint, NEAR_DUPLICATE_K, RECOMMENDED_POINTS_PER_CONSTANT, RECOMMENDED_SPAN_K};
 pub use error::{FitError, FitWarning};
 pub use extended::{ExtendedFit, fit_extended};
+pub use pair::{ConsistencyTest, PairFit, PointResidual, VlePoint, fit_pair, read_vle_csv};
 pub use report::{FitReport, NamedConstant, Residual};
 pub use user_component::{UserComponent, UserComponentBuilder};
 

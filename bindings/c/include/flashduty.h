@@ -193,7 +193,7 @@ enum FdStatus fd_library_add_json(struct FdLibrary *library, const char *json);
 size_t fd_library_len(const struct FdLibrary *library);
 
 // Runs a case as the command-line tool does: `command` is `flash`, `bubble`, `dew`,
-// `duty` or `curve`, `case_json` the case (JSON, the keys of docs/CLI.md). On success
+// `duty`, `curve` or `azeotropes`, `case_json` the case (JSON, the keys of docs/CLI.md). On success
 // `*out_json` is the outcome's JSON object, the tool's `--json` output; on failure it is
 // `{"error": {"kind", "field", "message"}}`, the tool's JSON error. Free it with
 // [`fd_string_free`]. `out_json` may be null where only the status is wanted.

@@ -390,7 +390,7 @@ pub unsafe extern "C" fn fd_library_len(library: *const FdLibrary) -> usize {
 }
 
 /// Runs a case as the command-line tool does: `command` is `flash`, `bubble`, `dew`,
-/// `duty` or `curve`, `case_json` the case (JSON, the keys of docs/CLI.md). On success
+/// `duty`, `curve` or `azeotropes`, `case_json` the case (JSON, the keys of docs/CLI.md). On success
 /// `*out_json` is the outcome's JSON object, the tool's `--json` output; on failure it is
 /// `{"error": {"kind", "field", "message"}}`, the tool's JSON error. Free it with
 /// [`fd_string_free`]. `out_json` may be null where only the status is wanted.
@@ -418,7 +418,7 @@ pub unsafe extern "C" fn fd_run_case(
                 FdStatus::Input,
                 "unknown-command",
                 "command",
-                format!("command: '{name}' is not flash, bubble, dew, duty or curve"),
+                format!("command: '{name}' is not flash, bubble, dew, duty, curve or azeotropes"),
             ));
         };
         // SAFETY: by contract.

@@ -99,7 +99,7 @@ fn run_case(py: Python<'_>, command: &str, case_json: &str, library: Option<&PyL
             return Err(failure(
                 "unknown-command",
                 "command",
-                format!("command: '{command}' is not flash, bubble, dew, duty or curve"),
+                format!("command: '{command}' is not flash, bubble, dew, duty, curve or azeotropes"),
             ));
         };
         let value = flashduty::case::parse_text("case.json", &case_json).map_err(from_case)?;

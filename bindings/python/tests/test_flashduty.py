@@ -92,6 +92,19 @@ def test_water_phase_and_library_files(root):
     assert "exampleane" in lib.names()
 
 
+def test_activity_models_and_azeotropes():
+    # Perry's ethanol-water table at 1 atm (from memory): x = 0.0966 boils at 86.7 degC and
+    # x = 0.1238 at 85.3 degC; CRC azeotrope table (from memory): 78.15 degC at x = 0.894.
+    r = flashduty.bubble(components=["ethanol", "water"], z=[0.1, 0.9], P="1 atm", liquid_model="nrtl")
+    assert 85.3 < r.T_K - 273.15 < 87.2
+    assert r.liquid_model == "nrtl"
+    ideal = flashduty.bubble(components=["ethanol", "water"], z=[0.1, 0.9], P="1 atm")
+    assert "non-ideal-liquid" in [w["kind"] for w in ideal.warnings]
+    a = flashduty.azeotropes(components=["ethanol", "water"], P="1 atm", liquid_model="nrtl")
+    assert a.count == 1
+    assert abs(a.azeotropes[0]["T_K"] - 351.3) < 0.2
+
+
 # The hostile inputs of the command-line tool's tests: each refused with its kind and field.
 HOSTILE = [
     ({"components": ["unobtainium"], "z": [1], "T": 300, "P": 1e5}, "unknown-component", "components[0]"),
@@ -106,6 +119,13 @@ HOSTILE = [
     ({"components": ["x" * 100_000], "z": [1], "T": 300, "P": 1e5}, "unknown-component", "components[0]"),
     ({"z": [0.5, 0.5], "K": [2, -1]}, None, "K[1]"),
     ({"components": ["water", "toluene"], "z": [0.5, 0.5], "P": 1e5, "water_phase": "maybe"}, None, "water_phase"),
+    ({"components": ["water"], "z": [1], "P": 1e5, "T": 300, "liquid_model": "margules"}, "unknown-liquid-model", "liquid_model"),
+    (
+        {"components": ["ethanol", "water"], "z": [0.5, 0.5], "P": 1e5, "T": 350, "liquid_model": "nrtl",
+         "binary_parameters": {"pairs": [{"components": ["ethanol", "water"], "nrtl": {"b12": 1, "b21": 1, "alpha": 2}}]}},
+        "invalid-parameter",
+        "binary_parameters.pairs[0].nrtl.alpha",
+    ),
 ]
 
 

@@ -54,6 +54,7 @@ fn columns(command: Command) -> &'static [&'static str] {
             "path_spread.relative",
         ],
         Command::Curve => &["duty_W", "bubble_T_K", "dew_T_K", "P_Pa"],
+        Command::Azeotropes => &["count", "azeotrope_T_K", "azeotrope_P_Pa", "azeotrope_x1"],
     }
 }
 

@@ -9,6 +9,7 @@ mod compute;
 mod demo;
 mod error;
 mod fit;
+mod fit_pair;
 #[cfg(test)]
 mod fuzz_tests;
 mod output_units;
@@ -30,8 +31,9 @@ const LONG_ABOUT: &str = "Rachford–Rice flash, bubble and dew points, heater d
 (Raoult's-law) mixtures, with every constant traced to a published source.
 
 Caution: results are estimates from ideal-mixture models (Raoult's law, ideal liquid, ideal-gas vapour, \
-at most a second-virial correction to the vapour's enthalpy). Check that the models suit your mixture and \
-conditions (no azeotropes or strongly non-ideal liquids, pressures below a few bar). Equipment design and \
+at most a second-virial correction to the vapour's enthalpy), or, with liquid_model, from an activity \
+model whose parameters were fitted to limited data. Check that the models suit your mixture and \
+conditions (strongly non-ideal liquids need liquid_model; pressures below a few bar). Equipment design and \
 operation follow the applicable local codes and the judgement of a qualified, licensed engineer.";
 
 const AFTER_HELP: &str = "\
@@ -54,6 +56,10 @@ A case file is JSON (TOML when the name ends in .toml) with these keys:
   water_phase      \"one-liquid\" (default) or \"immiscible\": water forms its own liquid beside the
                    organic one (or {\"model\": \"immiscible\", \"water_in_organic\": x,
                    \"organic_in_water\": {name: x}} with solubilities as mole fractions)
+  liquid_model     \"ideal\" (default: Raoult's law), \"wilson\", \"nrtl\" or \"uniquac\": K = γ Psat / P with
+                   an activity model of the liquid and its excess enthalpy (built-in pairs: see README)
+  binary_parameters  a parameter file's path (JSON or TOML) or the object itself, {\"pairs\": [...]}:
+                   pairs added to the built-in set (the `fit-pair` command writes such a file)
   note             free text
 Unknown keys, and keys a command does not use, are errors.
 
@@ -146,6 +152,8 @@ enum Cmd {
         #[arg(long, value_name = "FILE")]
         csv: Option<PathBuf>,
     },
+    /// The azeotropes of a binary at T or P, under the case's liquid_model.
+    Azeotropes(CaseArgs),
     /// Run a design spreadsheet's rows and compare them with its expected values.
     Check {
         /// The spreadsheet: a workbook (.xlsx, .xlsm, .xls, .ods) or CSV (comma- or
@@ -169,6 +177,9 @@ enum Cmd {
     Demo,
     /// Fit a vapour-pressure or heat-capacity correlation to data points in a CSV file.
     Fit(fit::FitArgs),
+    /// Fit a Wilson, NRTL or UNIQUAC pair to vapour–liquid equilibrium data in a CSV file,
+    /// test the data's consistency, and write a parameter file.
+    FitPair(fit_pair::FitPairArgs),
 }
 
 /// Writes to standard output; a closed pipe (e.g. `| head`) ends quietly.
@@ -258,6 +269,7 @@ fn run(cli: &Cli) -> CliResult<u8> {
         Cmd::Bubble(a) => case_command(cli, Command::Bubble, a),
         Cmd::Dew(a) => case_command(cli, Command::Dew, a),
         Cmd::Duty(a) => case_command(cli, Command::Duty, a),
+        Cmd::Azeotropes(a) => case_command(cli, Command::Azeotropes, a),
         Cmd::Curve { case, points, svg, csv } => {
             let lib = compute::library(&cli.component_files)?;
             let (name, c) = case::load(case, Command::Curve)?;
@@ -314,6 +326,12 @@ fn run(cli: &Cli) -> CliResult<u8> {
         }
         Cmd::Fit(args) => {
             let out = fit::run(args, cli.json)?;
+            print(&out)?;
+            Ok(0)
+        }
+        Cmd::FitPair(args) => {
+            let lib = compute::library(&cli.component_files)?;
+            let out = fit_pair::run(&lib, args, cli.json)?;
             print(&out)?;
             Ok(0)
         }

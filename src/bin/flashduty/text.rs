@@ -1,7 +1,9 @@
 //! Human-readable reports: tidy tables with units, the warnings, and the caution line.
 
 use crate::case::Command;
-use crate::compute::{CAUTION, CurveOutcome, DutyOutcome, FlashOutcome, Outcome, PhaseFlow, State, phase_flows};
+use crate::compute::{
+    AzeotropeOutcome, CAUTION, CurveOutcome, DutyOutcome, FlashOutcome, Outcome, PhaseFlow, State, phase_flows,
+};
 use crate::output_units::{chosen, convert};
 use flashduty::energy::VapourModel;
 use flashduty::rachford_rice::Phase;
@@ -551,6 +553,57 @@ fn curve_text(out: &mut String, c: &CurveOutcome) {
 }
 
 /// The human-readable report of an outcome, ending with the caution line.
+fn azeotrope_text(out: &mut String, a: &AzeotropeOutcome) {
+    let names = a.feed.names.clone().unwrap_or_default();
+    let (first, second) = (
+        names.first().map_or("component 1", String::as_str),
+        names.get(1).map_or("component 2", String::as_str),
+    );
+    let at_pressure = a.given.0 == "P_Pa";
+    let given = if at_pressure {
+        format!("P = {}", pres(a.given.1))
+    } else {
+        format!("T = {}", temp(a.given.1))
+    };
+    let _ = writeln!(out, "Azeotropes of {first}–{second} at {given}");
+    for (name, v) in names.iter().zip(&a.pure) {
+        let value = if at_pressure {
+            format!("boils at {}", temp(*v))
+        } else {
+            format!("vapour pressure {}", pres(*v))
+        };
+        let _ = writeln!(out, "  pure {name} {value}");
+    }
+    if a.azeotropes.is_empty() {
+        let _ = writeln!(out, "  none found (x of {first} scanned from 0.0025 to 0.9975)");
+    } else {
+        let x_head = format!("x {first}");
+        let mut t = Table::new(&[
+            (x_head.as_str(), Align::Right),
+            ("T", Align::Right),
+            ("P", Align::Right),
+            ("kind", Align::Left),
+        ]);
+        for az in &a.azeotropes {
+            t.row(vec![
+                fixed(az.x[0], 4),
+                temp(az.temperature_k),
+                pres(az.pressure_pa),
+                if az.maximum_boiling {
+                    "maximum-boiling"
+                } else {
+                    "minimum-boiling"
+                }
+                .to_string(),
+            ]);
+        }
+        let _ = writeln!(out);
+        out.push_str(&t.render(2));
+    }
+    let _ = writeln!(out);
+    warnings(out, &a.warnings);
+}
+
 pub fn report(o: &Outcome, source: Option<&str>) -> String {
     let mut out = String::new();
     if let Some(s) = source {
@@ -564,6 +617,11 @@ pub fn report(o: &Outcome, source: Option<&str>) -> String {
             warnings(&mut out, &d.result.warnings);
         }
         Outcome::Curve(c) => curve_text(&mut out, c),
+        Outcome::Azeotropes(a) => azeotrope_text(&mut out, a),
+    }
+    let liquid = o.feed().liquid_model;
+    if liquid != flashduty::activity::LiquidModel::Ideal {
+        let _ = writeln!(out, "Liquid: {}", liquid.description());
     }
     let _ = writeln!(out);
     caution(&mut out);

@@ -32,6 +32,7 @@ __all__ = [
     "FlashdutyError",
     "Library",
     "Result",
+    "azeotropes",
     "bubble",
     "curve",
     "dew",
@@ -142,6 +143,11 @@ def outlet_for_duty(case=None, /, *, library=None, **keys):
 def curve(case=None, /, *, library=None, **keys):
     """A heating or cooling curve."""
     return _run("curve", case, keys, library)
+
+
+def azeotropes(case=None, /, *, library=None, **keys):
+    """The azeotropes of a binary at T or P, under the case's ``liquid_model``."""
+    return _run("azeotropes", case, keys, library)
 
 
 def _rows(name, a, n=None):
