@@ -10,7 +10,12 @@
 //! - the `DutyCalculator` with the second-virial vapour against the same with the default
 //!   ideal-gas vapour.
 //!
-//! The mixture is n = 10 library hydrocarbons (an invented feed).
+//! - the flash, bubble point and heater duty of a non-ideal liquid (NRTL, modified Raoult's
+//!   law with the excess enthalpy; methanol–ethanol–water) against the same calls under
+//!   Raoult's law on the same feed.
+//!
+//! The mixture is n = 10 library hydrocarbons (an invented feed); the activity-model group
+//! an invented methanol–ethanol–water feed.
 
 use criterion::{Criterion, criterion_group, criterion_main};
 use flashduty::energy::{DutyCalculator, DutyOptions, Stream, StreamState, VapourModel, heater_duty, outlet_for_duty};
@@ -204,5 +209,52 @@ impl KValueModel for AntoineK {
     }
 }
 
-criterion_group!(benches, bench);
+/// The NRTL liquid against Raoult's law, on one invented methanol–ethanol–water feed.
+fn bench_activity(c: &mut Criterion) {
+    use flashduty::activity::{BinaryParameters, LiquidModel};
+    use flashduty::energy::{EnthalpyModel, ExcessEnthalpyModel, heater_duty_with};
+    use flashduty::equilibrium::ModifiedRaoult;
+    use flashduty::library::Library;
+    let names = ["methanol", "ethanol", "water"];
+    let z = [0.2, 0.3, 0.5];
+    let comps = Library::builtin().get_all(&names).expect("library names");
+    let ideal = Raoult::new(comps.clone());
+    let nrtl = ModifiedRaoult::new(comps.clone(), LiquidModel::Nrtl, BinaryParameters::builtin()).expect("pairs");
+    let h_ideal = EnthalpyModel::from_options(comps.clone(), DutyOptions::default());
+    let h_nrtl = ExcessEnthalpyModel::new(h_ideal.clone(), nrtl.activity().clone()).expect("same components");
+    let stream = Stream::new(comps, &z, MolarFlow::new("flow", 1.0).expect("flow")).expect("stream");
+    let p = Pressure::new("P", 101_325.0).expect("pressure");
+    let t = Temperature::new("T", 358.0).expect("temperature");
+    let tp = FlashSpec::TemperaturePressure {
+        temperature: t,
+        pressure: p,
+    };
+    let at = |t: f64| StreamState::TemperaturePressure {
+        temperature: Temperature::new("T", t).expect("temperature"),
+        pressure: p,
+    };
+    let mut g = c.benchmark_group("activity n=3");
+    g.measurement_time(Duration::from_secs(2))
+        .warm_up_time(Duration::from_millis(500));
+    g.bench_function("baseline: T-P flash, Raoult", |b| {
+        b.iter(|| flash(&ideal, black_box(&z), tp))
+    });
+    g.bench_function("T-P flash, NRTL", |b| b.iter(|| flash(&nrtl, black_box(&z), tp)));
+    let bubble = FlashSpec::BubbleTemperature { pressure: p };
+    g.bench_function("baseline: bubble temperature, Raoult", |b| {
+        b.iter(|| flash(&ideal, black_box(&z), bubble))
+    });
+    g.bench_function("bubble temperature, NRTL", |b| {
+        b.iter(|| flash(&nrtl, black_box(&z), bubble))
+    });
+    g.bench_function("baseline: heater duty 300 K to 358 K, Raoult", |b| {
+        b.iter(|| heater_duty_with(&stream, &ideal, &h_ideal, at(300.0), black_box(at(358.0))))
+    });
+    g.bench_function("heater duty 300 K to 358 K, NRTL with excess enthalpy", |b| {
+        b.iter(|| heater_duty_with(&stream, &nrtl, &h_nrtl, at(300.0), black_box(at(358.0))))
+    });
+    g.finish();
+}
+
+criterion_group!(benches, bench, bench_activity);
 criterion_main!(benches);

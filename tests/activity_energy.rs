@@ -99,6 +99,32 @@ proptest! {
     }
 }
 
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(64))]
+
+    /// Bubble and dew points stay ordered and meet at the azeotrope, where x = y: across
+    /// the ethanol–water azeotrope (x = 0.894 at 1 atm) the bubble temperature never exceeds
+    /// the dew temperature, and a T–P flash between them is two-phase with its balance closed.
+    #[test]
+    fn bubble_and_dew_are_robust_across_the_azeotrope(x in 0.80f64..0.99, kind in prop_oneof![Just(LiquidModel::Nrtl), Just(LiquidModel::Uniquac)]) {
+        let (_, k, _, _) = models(kind, &["ethanol", "water"]);
+        let z = [x, 1.0 - x];
+        let pressure = Pressure::new("P", ATM).unwrap();
+        let b = flash(&k, &z, FlashSpec::BubbleTemperature { pressure }).unwrap();
+        let d = flash(&k, &z, FlashSpec::DewTemperature { pressure }).unwrap();
+        prop_assert!(b.temperature_k <= d.temperature_k + 1e-9, "{} > {}", b.temperature_k, d.temperature_k);
+        prop_assert!(d.temperature_k - b.temperature_k < 0.5);
+        if d.temperature_k - b.temperature_k > 1e-6 {
+            let t = 0.5 * (b.temperature_k + d.temperature_k);
+            let spec = FlashSpec::TemperaturePressure { temperature: Temperature::new("T", t).unwrap(), pressure };
+            let r = flash(&k, &z, spec).unwrap();
+            prop_assert_eq!(r.phase, Phase::TwoPhase);
+            let (lx, vy) = (r.liquid.unwrap(), r.vapour.unwrap());
+            prop_assert!((r.liquid_fraction * lx[0] + r.vapour_fraction * vy[0] - z[0]).abs() < 1e-12);
+        }
+    }
+}
+
 /// Heating a liquid that stays liquid: the duty differs from the ideal model's by exactly
 /// the change of the excess enthalpy (same pure-component paths), flow × ΔHᴱ.
 #[test]

@@ -328,6 +328,8 @@ fn every_error_variant_names_the_field() {
     )
     .unwrap_err();
     assert!(matches!(e, FlashError::NotConverged { .. }), "{e}");
+    // The error names the state it was asked for.
+    assert!(e.to_string().contains("T = 300 K, P = 101325 Pa"), "{e}");
 }
 
 /// An invented composition-dependent model whose K-values swap whenever the vapour turns

@@ -1,7 +1,8 @@
 //! Binary parameters of the activity models: the built-in set (`data/binary_pairs.json`,
 //! embedded) and the user's own, from a case or a parameter file (JSON or TOML, one schema).
 
-use super::{ActivityError, LiquidModel};
+use super::error::ActivityError;
+use super::model::LiquidModel;
 use crate::units::GAS_CONSTANT;
 use serde::Deserialize;
 use serde_json::Value;

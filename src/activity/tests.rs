@@ -2,6 +2,7 @@
 
 use super::*;
 use crate::test_rng::Rng;
+use crate::units::GAS_CONSTANT;
 
 fn models() -> Vec<ActivityModel> {
     let set = BinaryParameters::builtin();
@@ -179,4 +180,70 @@ fn errors_name_the_field() {
     assert!(e.to_string().contains("schema"), "{e}");
     let e = set.add_toml("f.toml", "pairs = 3").unwrap_err();
     assert_eq!(e.kind(), "parameter-file");
+}
+
+/// A published worked example of a Wilson bubble point: M. B. Cutlip and M. Shacham,
+/// *Problem Solving in Chemical Engineering with Numerical Methods*, 2nd ed., Prentice Hall,
+/// the problem "bubble point of a non-ideal mixture, ethanol (1)–n-hexane (2), Wilson
+/// equation": x₁ = 0.332112 at 760 mmHg, constant Λ₁₂ = 0.07858889 and Λ₂₁ = 0.30175355,
+/// Antoine log₁₀(P/mmHg) = A − B/(t/°C + C) with ethanol 8.04494, 1554.3, 222.65 and
+/// n-hexane 6.87776, 1171.53, 224.366. Its solution: T = 58.70 °C, γ₁ = 2.29250,
+/// γ₂ = 1.38602, y₁ = 0.33211 (the point is the azeotrope). Run here through the crate's
+/// Wilson code and its bubble-temperature search.
+#[test]
+fn wilson_bubble_point_worked_example() {
+    use crate::equilibrium::{FlashSpec, KValueModel, KValues, flash};
+    use crate::properties::{Antoine, AntoineForm, ValidityRange, VapourPressure};
+    use crate::units::Pressure;
+    struct Example {
+        activity: ActivityModel,
+        antoine: [Antoine; 2],
+    }
+    impl KValueModel for Example {
+        fn component_count(&self) -> usize {
+            2
+        }
+        fn k_values(&self, t: f64, p: f64, x: &[f64], _y: &[f64], out: &mut KValues) {
+            let (mut g, mut s) = ([0.0; 2], [0.0; 2]);
+            self.activity.ln_gamma(t, x, &mut g, &mut s);
+            for i in 0..2 {
+                let (ln_psat, slope) = self.antoine[i].ln_psat_with_slope(t);
+                out.k[i] = (ln_psat + g[i]).exp() / p;
+                out.dln_k_dt[i] = slope + s[i];
+                out.dln_k_dp[i] = -1.0 / p;
+            }
+        }
+        fn is_composition_dependent(&self) -> bool {
+            true
+        }
+    }
+    let range = ValidityRange::new(250.0, 400.0).unwrap();
+    let antoine = |a, b, c| Antoine::from_published(AntoineForm::Log10MmHgCelsius, a, b, c, range).unwrap();
+    // Constant Λ: zero energies, ln Λ given directly.
+    let activity = ActivityModel::binary(
+        LiquidModel::Wilson,
+        (0.0, 0.0),
+        (0.07858889f64.ln(), 0.30175355f64.ln()),
+        [(1.0, 1.0); 2],
+    );
+    let x = [0.332112, 0.667888];
+    let (mut g, mut s) = ([0.0; 2], [0.0; 2]);
+    activity.ln_gamma(331.85, &x, &mut g, &mut s);
+    assert!(
+        (g[0].exp() - 2.2924985789).abs() < 1e-8 && (g[1].exp() - 1.3860231871).abs() < 1e-8,
+        "{g:?}"
+    );
+    let model = Example {
+        activity,
+        antoine: [antoine(8.04494, 1554.3, 222.65), antoine(6.87776, 1171.53, 224.366)],
+    };
+    let p = Pressure::new("P", 760.0 * crate::units::MMHG_PA).unwrap();
+    let r = flash(&model, &x, FlashSpec::BubbleTemperature { pressure: p }).unwrap();
+    // Agreement to 2.5e-6 K (the mmHg-to-pascal factor and the two solvers' stopping rules).
+    assert!(
+        (r.temperature_k - 273.15 - 58.70000239).abs() < 1e-5,
+        "{}",
+        r.temperature_k - 273.15
+    );
+    assert!((r.vapour.unwrap()[0] - 0.33211183).abs() < 1e-6);
 }

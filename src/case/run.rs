@@ -892,6 +892,7 @@ fn row_json(r: &EnthalpyRow) -> Value {
         "latent_J_per_mol": r.latent_j_per_mol,
         "vapour_sensible_J_per_mol": r.vapour_sensible_j_per_mol,
         "vapour_departure_J_per_mol": r.vapour_departure_j_per_mol,
+        "excess_J_per_mol": r.excess_j_per_mol,
         "enthalpy_flow_W": r.enthalpy_flow_w,
     })
 }

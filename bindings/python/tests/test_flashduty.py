@@ -35,6 +35,9 @@ EXAMPLES = [
     ("water_toluene_condenser.json", "curve", None),
     ("wet_toluene_bubble.json", "bubble", None),
     ("user_component_case.json", "bubble", "user_component.json"),
+    ("ethanol_water_bubble.json", "bubble", None),
+    ("ethanol_water_heater.json", "duty", None),
+    ("azeotropes.json", "azeotropes", None),
 ]
 
 

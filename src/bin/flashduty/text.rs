@@ -421,6 +421,11 @@ pub fn duty_body(out: &mut String, d: &DutyOutcome) {
     if departure {
         columns.push(("vap. departure", Align::Right));
     }
+    // The excess column appears only where the liquid model adds an excess enthalpy.
+    let excess = r.table.iter().any(|row| row.excess_j_per_mol != 0.0);
+    if excess {
+        columns.push(("excess", Align::Right));
+    }
     columns.extend([("h [J/mol]", Align::Right), ("H flow [W]", Align::Right)]);
     let mut t = Table::new(&columns);
     let mut sums = [0.0f64; 2];
@@ -442,6 +447,9 @@ pub fn duty_body(out: &mut String, d: &DutyOutcome) {
         ]);
         if departure {
             cells.push(fixed(row.vapour_departure_j_per_mol, 1));
+        }
+        if excess {
+            cells.push(fixed(row.excess_j_per_mol, 1));
         }
         cells.extend([fixed(row.enthalpy_j_per_mol, 1), fixed(row.enthalpy_flow_w, 1)]);
         t.row(cells);
