@@ -245,3 +245,32 @@ fn bad_parameters_are_refused_with_the_field() {
         &["liquid_model", "water_phase"],
     );
 }
+
+/// At the azeotrope's composition (CRC: x = 0.894 at 1 atm, from memory) the mixture boils
+/// like a pure component: the curve has a plateau, bubble and dew points meet, and a
+/// duty-specified condenser outlet on the plateau is found by its vapour fraction.
+#[test]
+fn curves_and_duties_through_the_azeotrope() {
+    let c = run_json(
+        "curve",
+        &json!({"components": ["ethanol", "water"], "z": [0.894, 0.106], "liquid_model": "nrtl",
+                "inlet": {"T": "70 degC", "P": "1 atm"}, "outlet": {"T": "90 degC", "P": "1 atm"}, "points": 6}),
+    );
+    let (b, d) = (c["bubble_T_K"].as_f64().unwrap(), c["dew_T_K"].as_f64().unwrap());
+    assert!((b - d).abs() < 1e-6 && (b - 351.3).abs() < 0.1, "{b} {d}");
+    let plateau = c["points"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .filter(|p| (p["T_K"].as_f64().unwrap() - b).abs() < 1e-6)
+        .count();
+    assert!(plateau >= 4, "{c}");
+    let q = c["duty_W"].as_f64().unwrap();
+    let half = run_json(
+        "duty",
+        &json!({"components": ["ethanol", "water"], "z": [0.894, 0.106], "liquid_model": "nrtl",
+                "inlet": {"T": "70 degC", "P": "1 atm"}, "duty": format!("{} W", q / 2.0), "outlet": {"P": "1 atm"}}),
+    );
+    assert_eq!(half["outlet"]["phase"], "two-phase");
+    assert!((half["outlet"]["T_K"].as_f64().unwrap() - b).abs() < 1e-6);
+}

@@ -4,8 +4,15 @@ use super::error::ActivityError;
 use super::pairs::{self, BinaryParameters};
 use super::{nrtl, uniquac, wilson};
 use crate::units::GAS_CONSTANT;
+use std::cell::RefCell;
 use std::fmt;
 use std::str::FromStr;
+
+thread_local! {
+    /// Working storage of [`ActivityModel::ln_gamma`] (the clipped, normalised composition
+    /// and the formulas' matrices), so that K-value evaluations in a flash do not allocate.
+    static SCRATCH: RefCell<(Vec<f64>, Vec<f64>)> = const { RefCell::new((Vec::new(), Vec::new())) };
+}
 
 /// Which liquid model a case uses: the case key `"liquid_model"`.
 ///
@@ -273,19 +280,26 @@ impl ActivityModel {
             ln_gamma.iter_mut().chain(slope.iter_mut()).for_each(|v| *v = 0.0);
             return;
         }
-        let mut clean: Vec<f64> = x.iter().map(|v| v.max(0.0)).collect();
-        let sum: f64 = clean.iter().sum();
-        if sum > 0.0 && sum.is_finite() {
-            clean.iter_mut().for_each(|v| *v /= sum);
-        } else {
-            clean.iter_mut().for_each(|v| *v = 1.0 / n as f64);
-        }
-        match self.kind {
-            LiquidModel::Wilson => wilson::ln_gamma(t_k, &clean, &self.energy_k, &self.second, ln_gamma, slope),
-            LiquidModel::Nrtl => nrtl::ln_gamma(t_k, &clean, &self.energy_k, &self.second, ln_gamma, slope),
-            LiquidModel::Uniquac => uniquac::ln_gamma(t_k, &clean, &self.energy_k, &self.r, &self.q, ln_gamma, slope),
-            LiquidModel::Ideal => ln_gamma.iter_mut().chain(slope.iter_mut()).for_each(|v| *v = 0.0),
-        }
+        SCRATCH.with_borrow_mut(|(clean, scratch)| {
+            clean.clear();
+            clean.extend(x.iter().map(|v| v.max(0.0)));
+            let sum: f64 = clean.iter().sum();
+            if sum > 0.0 && sum.is_finite() {
+                clean.iter_mut().for_each(|v| *v /= sum);
+            } else {
+                clean.iter_mut().for_each(|v| *v = 1.0 / n as f64);
+            }
+            match self.kind {
+                LiquidModel::Wilson => {
+                    wilson::ln_gamma(t_k, clean, &self.energy_k, &self.second, ln_gamma, slope, scratch)
+                }
+                LiquidModel::Nrtl => nrtl::ln_gamma(t_k, clean, &self.energy_k, &self.second, ln_gamma, slope, scratch),
+                LiquidModel::Uniquac => {
+                    uniquac::ln_gamma(t_k, clean, &self.energy_k, &self.r, &self.q, ln_gamma, slope, scratch)
+                }
+                LiquidModel::Ideal => ln_gamma.iter_mut().chain(slope.iter_mut()).for_each(|v| *v = 0.0),
+            }
+        });
     }
 
     /// Gᴱ/RT = Σ xᵢ ln γᵢ at `t_k` and `x`.

@@ -13,12 +13,25 @@
 
 /// ln γᵢ and ∂ln γᵢ/∂T of NRTL at `t_k` and `x` into `ln_gamma` and `slope`.
 /// `b_k[i * n + j]` = bᵢⱼ / R (K), `alpha[i * n + j]` = αᵢⱼ.
-pub(crate) fn ln_gamma(t_k: f64, x: &[f64], b_k: &[f64], alpha: &[f64], ln_gamma: &mut [f64], slope: &mut [f64]) {
+pub(crate) fn ln_gamma(
+    t_k: f64,
+    x: &[f64],
+    b_k: &[f64],
+    alpha: &[f64],
+    ln_gamma: &mut [f64],
+    slope: &mut [f64],
+    scratch: &mut Vec<f64>,
+) {
     let n = x.len();
-    let mut tau = vec![0.0; n * n];
-    let mut dtau = vec![0.0; n * n];
-    let mut g = vec![0.0; n * n];
-    let mut dg = vec![0.0; n * n];
+    scratch.clear();
+    scratch.resize(4 * n * n + 4 * n, 0.0);
+    let (tau, rest) = scratch.split_at_mut(n * n);
+    let (dtau, rest) = rest.split_at_mut(n * n);
+    let (g, rest) = rest.split_at_mut(n * n);
+    let (dg, rest) = rest.split_at_mut(n * n);
+    let (d, rest) = rest.split_at_mut(n);
+    let (dd, rest) = rest.split_at_mut(n);
+    let (num, dnum) = rest.split_at_mut(n);
     for idx in 0..n * n {
         tau[idx] = b_k[idx] / t_k;
         dtau[idx] = -b_k[idx] / (t_k * t_k);
@@ -26,7 +39,6 @@ pub(crate) fn ln_gamma(t_k: f64, x: &[f64], b_k: &[f64], alpha: &[f64], ln_gamma
         dg[idx] = -alpha[idx] * dtau[idx] * g[idx];
     }
     // For each j: Dⱼ = Σₖ Gₖⱼ xₖ, Nⱼ = Σₘ xₘ τₘⱼ Gₘⱼ, and their T-derivatives.
-    let (mut d, mut dd, mut num, mut dnum) = (vec![0.0; n], vec![0.0; n], vec![0.0; n], vec![0.0; n]);
     for j in 0..n {
         for k in 0..n {
             let kj = k * n + j;

@@ -17,6 +17,7 @@ const COORDINATION: f64 = 10.0;
 
 /// ln γᵢ and ∂ln γᵢ/∂T of UNIQUAC at `t_k` and `x` into `ln_gamma` and `slope`.
 /// `u_k[i * n + j]` = uᵢⱼ / R (K); `r`, `q` the volume and area parameters.
+#[allow(clippy::too_many_arguments)]
 pub(crate) fn ln_gamma(
     t_k: f64,
     x: &[f64],
@@ -25,22 +26,31 @@ pub(crate) fn ln_gamma(
     q: &[f64],
     ln_gamma: &mut [f64],
     slope: &mut [f64],
+    scratch: &mut Vec<f64>,
 ) {
     let n = x.len();
+    scratch.clear();
+    scratch.resize(2 * n * n + 4 * n, 0.0);
+    let (tau, rest) = scratch.split_at_mut(n * n);
+    let (dtau, rest) = rest.split_at_mut(n * n);
+    let (l, rest) = rest.split_at_mut(n);
+    let (theta, rest) = rest.split_at_mut(n);
+    let (s, ds) = rest.split_at_mut(n);
     let half_z = COORDINATION / 2.0;
     let sum_r: f64 = x.iter().zip(r).map(|(x, r)| x * r).sum();
     let sum_q: f64 = x.iter().zip(q).map(|(x, q)| x * q).sum();
-    let l: Vec<f64> = (0..n).map(|i| half_z * (r[i] - q[i]) - (r[i] - 1.0)).collect();
-    let sum_xl: f64 = x.iter().zip(&l).map(|(x, l)| x * l).sum();
-    let theta: Vec<f64> = (0..n).map(|i| q[i] * x[i] / sum_q).collect();
-    let mut tau = vec![0.0; n * n];
-    let mut dtau = vec![0.0; n * n];
+    for i in 0..n {
+        l[i] = half_z * (r[i] - q[i]) - (r[i] - 1.0);
+    }
+    let sum_xl: f64 = x.iter().zip(l.iter()).map(|(x, l)| x * l).sum();
+    for i in 0..n {
+        theta[i] = q[i] * x[i] / sum_q;
+    }
     for idx in 0..n * n {
         tau[idx] = (-u_k[idx] / t_k).exp();
         dtau[idx] = tau[idx] * u_k[idx] / (t_k * t_k);
     }
     // Sⱼ = Σₖ θₖ τₖⱼ and S'ⱼ.
-    let (mut s, mut ds) = (vec![0.0; n], vec![0.0; n]);
     for j in 0..n {
         for k in 0..n {
             s[j] += theta[k] * tau[k * n + j];

@@ -12,18 +12,27 @@
 
 /// ln γᵢ and ∂ln γᵢ/∂T of the Wilson equation at `t_k` and `x` into `ln_gamma` and `slope`.
 /// `a_k[i * n + j]` = aᵢⱼ / R (K), `ln_v[i * n + j]` = ln(Vⱼ / Vᵢ).
-pub(crate) fn ln_gamma(t_k: f64, x: &[f64], a_k: &[f64], ln_v: &[f64], ln_gamma: &mut [f64], slope: &mut [f64]) {
+pub(crate) fn ln_gamma(
+    t_k: f64,
+    x: &[f64],
+    a_k: &[f64],
+    ln_v: &[f64],
+    ln_gamma: &mut [f64],
+    slope: &mut [f64],
+    scratch: &mut Vec<f64>,
+) {
     let n = x.len();
+    scratch.clear();
+    scratch.resize(2 * n * n + 2 * n, 0.0);
+    let (lambda, rest) = scratch.split_at_mut(n * n);
+    let (dlambda, rest) = rest.split_at_mut(n * n);
+    let (s, ds) = rest.split_at_mut(n);
     // Λᵢⱼ and dΛᵢⱼ/dT = Λᵢⱼ aᵢⱼ / T².
-    let mut lambda = vec![0.0; n * n];
-    let mut dlambda = vec![0.0; n * n];
     for idx in 0..n * n {
         lambda[idx] = (ln_v[idx] - a_k[idx] / t_k).exp();
         dlambda[idx] = lambda[idx] * a_k[idx] / (t_k * t_k);
     }
     // Sᵢ = Σⱼ xⱼ Λᵢⱼ, S'ᵢ = Σⱼ xⱼ Λ'ᵢⱼ.
-    let mut s = vec![0.0; n];
-    let mut ds = vec![0.0; n];
     for i in 0..n {
         for j in 0..n {
             s[i] += x[j] * lambda[i * n + j];

@@ -5,7 +5,13 @@ use super::kvalue::{KValueModel, KValues, Raoult};
 use crate::activity::{ActivityError, ActivityModel, BinaryParameters, LiquidModel};
 use crate::properties::Component;
 use crate::warnings::{Warning, push_unique};
+use std::cell::RefCell;
 use std::sync::{Arc, OnceLock};
+
+thread_local! {
+    /// ln γ and ∂ln γ/∂T of one K-value evaluation, so that it does not allocate.
+    static GAMMA: RefCell<(Vec<f64>, Vec<f64>)> = const { RefCell::new((Vec::new(), Vec::new())) };
+}
 
 /// The modified Raoult's law Kᵢ = γᵢ(T, x) Psatᵢ(T) / P: an ideal-gas vapour over a
 /// non-ideal liquid described by a Wilson, NRTL or UNIQUAC model
@@ -102,12 +108,15 @@ impl KValueModel for ModifiedRaoult {
         if liquid.len() != n {
             return;
         }
-        let (mut ln_gamma, mut slope) = (vec![0.0; n], vec![0.0; n]);
-        self.activity.ln_gamma(t_k, liquid, &mut ln_gamma, &mut slope);
-        for i in 0..n {
-            out.k[i] *= ln_gamma[i].exp();
-            out.dln_k_dt[i] += slope[i];
-        }
+        GAMMA.with_borrow_mut(|(ln_gamma, slope)| {
+            ln_gamma.resize(n, 0.0);
+            slope.resize(n, 0.0);
+            self.activity.ln_gamma(t_k, liquid, ln_gamma, slope);
+            for i in 0..n {
+                out.k[i] *= ln_gamma[i].exp();
+                out.dln_k_dt[i] += slope[i];
+            }
+        });
     }
 
     fn is_composition_dependent(&self) -> bool {
