@@ -233,6 +233,12 @@ fn bad_parameters_are_refused_with_the_field() {
         &ethanol_water(json!({"liquid_model": "nrtl", "binary_parameters": "/no/such/file.json"})),
         &["/no/such/file.json"],
     );
+    // A device is not read (it could be endless).
+    fails(
+        "bubble",
+        &ethanol_water(json!({"liquid_model": "nrtl", "binary_parameters": "/dev/zero"})),
+        &["/dev/zero", "not a regular file"],
+    );
     fails(
         "flash",
         &json!({"z": [0.5, 0.5], "K": [2.0, 0.5], "liquid_model": "nrtl"}),

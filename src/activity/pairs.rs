@@ -15,6 +15,9 @@ pub const BUILTIN_PAIRS_JSON: &str = include_str!("../../data/binary_pairs.json"
 /// The schema tag of a parameter file.
 pub const PAIRS_SCHEMA: &str = "flashduty-binary-parameters/1";
 
+/// The largest parameter file read, bytes (a file of thousands of pairs is far smaller).
+const MAX_FILE_BYTES: u64 = 4 << 20;
+
 /// Thermochemical calorie, J (common practice: the calorie of the DECHEMA tables).
 const CALORIE_J: f64 = 4.184;
 
@@ -272,11 +275,27 @@ impl BinaryParameters {
     /// # Errors
     /// [`ActivityError::Parse`] if it cannot be read, else as [`add_json`](Self::add_json).
     pub fn add_path(&mut self, path: &std::path::Path) -> Result<usize, ActivityError> {
-        let name = path.display().to_string();
-        let text = std::fs::read_to_string(path).map_err(|e| ActivityError::Parse {
+        use std::io::Read;
+        let name = crate::units::clip(&path.display().to_string()).into_owned();
+        let fail = |message: String| ActivityError::Parse {
             file: name.clone(),
-            message: e.to_string(),
-        })?;
+            message,
+        };
+        // Only a regular file of a sane size: a case may name any path, and a device or a
+        // pipe (/dev/zero, /dev/stdin) must not hang the reader.
+        let meta = std::fs::metadata(path).map_err(|e| fail(e.to_string()))?;
+        if !meta.is_file() {
+            return Err(fail("not a regular file".into()));
+        }
+        if meta.len() > MAX_FILE_BYTES {
+            return Err(fail(format!(
+                "larger than {MAX_FILE_BYTES} bytes; not a parameter file"
+            )));
+        }
+        let mut text = String::new();
+        std::fs::File::open(path)
+            .and_then(|f| f.take(MAX_FILE_BYTES).read_to_string(&mut text))
+            .map_err(|e| fail(e.to_string()))?;
         if path.extension().is_some_and(|e| e.eq_ignore_ascii_case("toml")) {
             self.add_toml(&name, &text)
         } else {
