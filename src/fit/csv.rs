@@ -119,16 +119,8 @@ pub fn read_points_csv(text: &str, kind: DataKind) -> Result<Vec<DataPoint>, Fit
         DataKind::VapourPressure => "T [degC], P [kPa]",
         DataKind::HeatCapacity => "T [K], Cp [J/mol/K]",
     };
-    let text = text.strip_prefix('\u{feff}').unwrap_or(text);
-    let mut lines = text
-        .lines()
-        .enumerate()
-        .map(|(i, l)| (i + 1, l.trim()))
-        .filter(|(_, l)| !l.is_empty() && !l.starts_with('#'));
-    let Some((header_line, header)) = lines.next() else {
-        return Err(FitError::CsvNoHeader { example });
-    };
-    let cells: Vec<String> = header.split(',').map(|c| c.trim().to_string()).collect();
+    let csv = Records::split(text, example)?;
+    let (header_line, cells) = (csv.header_line, &csv.cells);
     let missing = |column: &'static str| FitError::CsvMissingColumn {
         line: header_line,
         column,
@@ -195,27 +187,11 @@ pub fn read_points_csv(text: &str, kind: DataKind) -> Result<Vec<DataPoint>, Fit
     };
 
     let mut points = Vec::new();
-    for (row0, (line, text)) in lines.enumerate() {
-        let row = row0 + 1;
-        let fields: Vec<&str> = text.split(',').map(str::trim).collect();
-        if fields.len() != cells.len() {
-            return Err(FitError::CsvFieldCount {
-                line,
-                row,
-                found: fields.len(),
-                expected: cells.len(),
-            });
-        }
-        let number = |col: usize| -> Result<f64, FitError> {
-            fields[col].parse::<f64>().map_err(|_| FitError::CsvNumber {
-                line,
-                row,
-                column: cells[col].clone(),
-                text: fields[col].to_string(),
-            })
-        };
-        let t = number(t_col)?;
-        let v = number(v_col)?;
+    for record in csv.records() {
+        let record = record?;
+        let line = record.line;
+        let t = record.number(t_col)?;
+        let v = record.number(v_col)?;
         // Non-finite values pass through unconverted, for the fit to report by row.
         let t_k = match (&t_unit, t.is_finite()) {
             (Some(u), true) => units::to_si(QuantityKind::Temperature, &cells[t_col], t, u)
@@ -224,28 +200,119 @@ pub fn read_points_csv(text: &str, kind: DataKind) -> Result<Vec<DataPoint>, Fit
         };
         points.push(DataPoint::new(t_k, if v.is_finite() { to_si(v) } else { v }));
     }
-    // A column with no unit whose every value is below what SI data give.
-    let bare = |col: usize, unitless: bool, min: f64, unit: &'static str, example: &'static str, values: &[f64]| {
-        let all_low = !values.is_empty() && values.iter().all(|x| x.is_finite() && *x > 0.0 && *x < min);
-        (unitless && all_low).then(|| FitError::CsvBareColumn {
-            line: header_line,
-            column: cells[col].clone(),
-            unit,
-            min,
-            example,
-        })
-    };
     let temperatures: Vec<f64> = points.iter().map(|p| p.t_k).collect();
-    if let Some(e) = bare(t_col, t_unit.is_none(), 150.0, "K", "T [degC]", &temperatures) {
-        return Err(e);
+    if t_unit.is_none() {
+        csv.refuse_bare_column(t_col, BareKind::Temperature, &temperatures)?;
     }
     let values: Vec<f64> = points.iter().map(|p| p.value).collect();
-    if kind == DataKind::VapourPressure
-        && let Some(e) = bare(v_col, v_unit_none, 1000.0, "Pa", "P [kPa]", &values)
-    {
-        return Err(e);
+    if kind == DataKind::VapourPressure && v_unit_none {
+        csv.refuse_bare_column(v_col, BareKind::Pressure, &values)?;
     }
     Ok(points)
+}
+
+/// CSV text split into its header's cells and its data lines: the first line that is
+/// neither blank nor a `#` comment is the header (a byte-order mark is dropped).
+pub(super) struct Records<'a> {
+    /// 1-based line of the header.
+    pub header_line: usize,
+    /// The header's cells, trimmed.
+    pub cells: Vec<String>,
+    lines: Vec<(usize, &'a str)>,
+}
+
+/// A data line split into its fields, with its file line and 1-based data row.
+pub(super) struct Record<'r> {
+    /// 1-based line in the text.
+    pub line: usize,
+    /// 1-based data row.
+    pub row: usize,
+    fields: Vec<&'r str>,
+    cells: &'r [String],
+}
+
+/// What a unitless (SI) column holds, for the bare-number check.
+#[derive(Clone, Copy)]
+pub(super) enum BareKind {
+    /// Kelvin: values all below 150 K are almost always °C typed without the unit.
+    Temperature,
+    /// Pascal: values all below 1,000 Pa are almost always kPa, bar or mmHg.
+    Pressure,
+}
+
+impl<'a> Records<'a> {
+    /// Splits `text`; `example` is a header to suggest when there is none.
+    pub fn split(text: &'a str, example: &'static str) -> Result<Self, FitError> {
+        let text = text.strip_prefix('\u{feff}').unwrap_or(text);
+        let mut lines = text
+            .lines()
+            .enumerate()
+            .map(|(i, l)| (i + 1, l.trim()))
+            .filter(|(_, l)| !l.is_empty() && !l.starts_with('#'));
+        let Some((header_line, header)) = lines.next() else {
+            return Err(FitError::CsvNoHeader { example });
+        };
+        Ok(Self {
+            header_line,
+            cells: header.split(',').map(|c| c.trim().to_string()).collect(),
+            lines: lines.collect(),
+        })
+    }
+
+    /// The data records in order; one with a different number of fields from the header
+    /// is [`FitError::CsvFieldCount`].
+    pub fn records(&self) -> impl Iterator<Item = Result<Record<'_>, FitError>> {
+        self.lines.iter().enumerate().map(|(i, &(line, text))| {
+            let fields: Vec<&str> = text.split(',').map(str::trim).collect();
+            if fields.len() == self.cells.len() {
+                Ok(Record {
+                    line,
+                    row: i + 1,
+                    fields,
+                    cells: &self.cells,
+                })
+            } else {
+                Err(FitError::CsvFieldCount {
+                    line,
+                    row: i + 1,
+                    found: fields.len(),
+                    expected: self.cells.len(),
+                })
+            }
+        })
+    }
+
+    /// [`FitError::CsvBareColumn`] where column `col` had no unit and every one of its
+    /// `values` (in SI) is below what such data give.
+    pub fn refuse_bare_column(&self, col: usize, kind: BareKind, values: &[f64]) -> Result<(), FitError> {
+        let (min, unit, example) = match kind {
+            BareKind::Temperature => (150.0, "K", "T [degC]"),
+            BareKind::Pressure => (1000.0, "Pa", "P [kPa]"),
+        };
+        let all_low = !values.is_empty() && values.iter().all(|x| x.is_finite() && *x > 0.0 && *x < min);
+        if all_low {
+            return Err(FitError::CsvBareColumn {
+                line: self.header_line,
+                column: self.cells[col].clone(),
+                unit,
+                min,
+                example,
+            });
+        }
+        Ok(())
+    }
+}
+
+impl Record<'_> {
+    /// The field of column `col` as a number ([`FitError::CsvNumber`] if it is not one).
+    pub fn number(&self, col: usize) -> Result<f64, FitError> {
+        self.fields[col].parse::<f64>().map_err(|_| FitError::CsvNumber {
+            line: self.line,
+            row: self.row,
+            column: self.cells[col].clone(),
+            text: crate::units::clip(self.fields[col]).into_owned(),
+        })
+    }
 }
 
 // ---------------------------------------------------------------------------------------

@@ -2,7 +2,7 @@
 //! vapour–liquid equilibrium data (T–x–y, P–x–y or x–y points), with the point test of the
 //! data's thermodynamic consistency.
 
-use super::csv::{PRESSURE_NAMES, TEMPERATURE_NAMES, match_header};
+use super::csv::{BareKind, PRESSURE_NAMES, Records, TEMPERATURE_NAMES, match_header};
 use super::error::FitError;
 use crate::activity::{ActivityModel, BinaryParameters, LiquidModel, PAIRS_SCHEMA};
 use crate::equilibrium::{FlashSpec, ModifiedRaoult, flash};
@@ -52,31 +52,20 @@ pub fn read_vle_csv(
     pressure_pa: Option<f64>,
     temperature_k: Option<f64>,
 ) -> Result<Vec<VlePoint>, FitError> {
-    let text = text.strip_prefix('\u{feff}').unwrap_or(text);
-    let mut lines = text
-        .lines()
-        .enumerate()
-        .map(|(i, l)| (i + 1, l.trim()))
-        .filter(|(_, l)| !l.is_empty() && !l.starts_with('#'));
-    let Some((header_line, header)) = lines.next() else {
-        return Err(FitError::CsvNoHeader { example: EXAMPLE });
-    };
-    let cells: Vec<String> = header.split(',').map(|c| c.trim().to_string()).collect();
-    let find = |names: &[&str], kind: Option<QuantityKind>| -> Result<Option<(usize, f64)>, FitError> {
+    let csv = Records::split(text, EXAMPLE)?;
+    let (header_line, cells) = (csv.header_line, &csv.cells);
+    // A column named with a unit gives (column, Some(unit)); a unit that is not one is an error.
+    let find = |names: &[&str], kind: Option<QuantityKind>| -> Result<Option<(usize, Option<String>)>, FitError> {
         for (i, cell) in cells.iter().enumerate() {
             let ok = |u: &str| kind.is_some_and(|k| units::to_si(k, "", 1.0, u).is_ok());
             if let Some(unit) = match_header(cell, names, ok) {
-                let factor = match (kind, unit) {
-                    (Some(k), Some(u)) => {
-                        units::to_si(k, cell, 1.0, &u).map_err(|source| FitError::CsvUnit {
-                            line: header_line,
-                            source,
-                        })?;
-                        f64::NAN
-                    }
-                    _ => 1.0,
-                };
-                return Ok(Some((i, factor)));
+                if let (Some(k), Some(u)) = (kind, &unit) {
+                    units::to_si(k, cell, 1.0, u).map_err(|source| FitError::CsvUnit {
+                        line: header_line,
+                        source,
+                    })?;
+                }
+                return Ok(Some((i, unit)));
             }
         }
         Ok(None)
@@ -90,74 +79,54 @@ pub fn read_vle_csv(
         });
     };
     let y_col = find(Y_NAMES, None)?.map(|c| c.0);
-    let t_col = find(TEMPERATURE_NAMES, Some(QuantityKind::Temperature))?.map(|c| c.0);
-    let p_col = find(PRESSURE_NAMES, Some(QuantityKind::Pressure))?.map(|c| c.0);
+    let t_col = find(TEMPERATURE_NAMES, Some(QuantityKind::Temperature))?;
+    let p_col = find(PRESSURE_NAMES, Some(QuantityKind::Pressure))?;
     if t_col.is_none() && p_col.is_none() && temperature_k.is_none() && pressure_pa.is_none() {
         return Err(FitError::Degenerate {
             model: "VLE data",
             why: "neither a T nor a P column, and no temperature or pressure given for the data".into(),
         });
     }
-    let unit_of = |col: usize| -> Option<String> {
-        let names = if Some(col) == t_col {
-            TEMPERATURE_NAMES
-        } else {
-            PRESSURE_NAMES
-        };
-        match_header(&cells[col], names, |_| true).flatten()
-    };
     let mut points = Vec::new();
-    for (row, (line, text)) in lines.enumerate() {
-        let row = row + 1;
-        let fields: Vec<&str> = text.split(',').map(str::trim).collect();
-        if fields.len() != cells.len() {
-            return Err(FitError::CsvFieldCount {
-                line,
-                row,
-                found: fields.len(),
-                expected: cells.len(),
-            });
-        }
-        let number = |col: usize| -> Result<f64, FitError> {
-            fields[col].parse::<f64>().map_err(|_| FitError::CsvNumber {
-                line,
-                row,
-                column: cells[col].clone(),
-                text: crate::units::clip(fields[col]).into_owned(),
-            })
-        };
+    for record in csv.records() {
+        let record = record?;
+        let row = record.row;
         let fraction = |col: usize, column: &'static str| -> Result<f64, FitError> {
-            let v = number(col)?;
+            let v = record.number(col)?;
             if (0.0..=1.0).contains(&v) {
                 Ok(v)
             } else {
                 Err(FitError::MoleFractionRange { row, column, value: v })
             }
         };
-        let converted = |col: usize, kind: QuantityKind| -> Result<f64, FitError> {
-            let v = number(col)?;
-            match unit_of(col) {
-                Some(u) => units::to_si(kind, &cells[col], v, &u).map_err(|source| FitError::CsvUnit { line, source }),
+        let converted = |(col, unit): &(usize, Option<String>), kind: QuantityKind| -> Result<f64, FitError> {
+            let v = record.number(*col)?;
+            match unit {
+                Some(u) => units::to_si(kind, &cells[*col], v, u).map_err(|source| FitError::CsvUnit {
+                    line: record.line,
+                    source,
+                }),
                 None => Ok(v),
             }
         };
-        let t = match t_col {
+        let t = match &t_col {
             Some(c) => Some(converted(c, QuantityKind::Temperature)?),
             None => temperature_k,
         };
-        let p = match p_col {
+        let p = match &p_col {
             Some(c) => Some(converted(c, QuantityKind::Pressure)?),
             None => pressure_pa,
         };
-        for (column, v) in [("T", t), ("P", p)] {
-            if let Some(v) = v
-                && !(v.is_finite() && v > 0.0)
-            {
-                return Err(FitError::NotFinite {
-                    row,
-                    column: if column == "T" { "temperature" } else { "pressure" },
-                    value: v,
-                });
+        for (column, v) in [("temperature", t), ("pressure", p)] {
+            match v {
+                Some(v) if !v.is_finite() => return Err(FitError::NotFinite { row, column, value: v }),
+                Some(t_k) if t_k <= 0.0 && column == "temperature" => {
+                    return Err(FitError::NonPositiveTemperature { row, t_k });
+                }
+                Some(pressure_pa) if pressure_pa <= 0.0 => {
+                    return Err(FitError::NonPositivePressure { row, pressure_pa });
+                }
+                _ => {}
             }
         }
         points.push(VlePoint {
@@ -166,6 +135,23 @@ pub fn read_vle_csv(
             temperature_k: t,
             pressure_pa: p,
         });
+    }
+    // Bare numbers too small for SI (°C or kPa typed without the unit) are refused.
+    for (col, kind, values) in [
+        (
+            &t_col,
+            BareKind::Temperature,
+            points.iter().filter_map(|p| p.temperature_k).collect::<Vec<_>>(),
+        ),
+        (
+            &p_col,
+            BareKind::Pressure,
+            points.iter().filter_map(|p| p.pressure_pa).collect(),
+        ),
+    ] {
+        if let Some((c, None)) = col {
+            csv.refuse_bare_column(*c, kind, &values)?;
+        }
     }
     Ok(points)
 }
@@ -562,5 +548,87 @@ impl PairFit {
             m.insert(params.0.into(), params.1);
         }
         json!({"schema": PAIRS_SCHEMA, "pairs": [pair]})
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// Every way a VLE data file is refused, each naming its line, row or column.
+    #[test]
+    fn vle_csv_errors() {
+        let kind = |text: &str| read_vle_csv(text, Some(101_325.0), None).unwrap_err().kind();
+        assert_eq!(kind("# only a comment\n"), "csv-no-header");
+        assert_eq!(kind("y1, T [degC]\n0.5, 80\n"), "csv-missing-column");
+        assert_eq!(kind("x1, T [furlongs]\n0.5, 80\n"), "csv-unit");
+        assert_eq!(kind("x1, T [degC]\n0.5\n"), "csv-field-count");
+        assert_eq!(kind("x1, T [degC]\n0.5, hot\n"), "csv-number");
+        assert_eq!(kind("x1, y1, T [degC]\n0.5, 1.2, 80\n"), "mole-fraction-range");
+        assert_eq!(kind("x1, T\n0.5, 80\n0.6, 79\n"), "csv-bare-column");
+        assert_eq!(kind("x1, P\n0.5, 101.3\n"), "csv-bare-column");
+        assert_eq!(kind("x1, T [K]\n0.5, -3\n"), "non-positive-temperature");
+        assert_eq!(kind("x1, T [K], P [kPa]\n0.5, 350, 0\n"), "non-positive-pressure");
+        let e = read_vle_csv("x1, y1\n0.5, 0.6\n", None, None).unwrap_err();
+        assert_eq!(e.kind(), "degenerate");
+        // SI without a unit is read as SI.
+        let p = read_vle_csv("x1, T\n0.5, 350\n", Some(1e5), None).unwrap();
+        assert_eq!(p[0].temperature_k, Some(350.0));
+        // A unit that is not a temperature unit in a T header is named.
+        let e = read_vle_csv("x1, T [kPa]\n0.5, 80\n", None, None).unwrap_err();
+        assert_eq!(e.kind(), "csv-unit");
+        assert!(e.to_string().contains("kPa"), "{e}");
+    }
+
+    /// fit_pair refuses what it cannot fit, naming why.
+    #[test]
+    fn fit_pair_errors() {
+        let c = crate::library::Library::builtin()
+            .get_all(&["ethanol", "water"])
+            .unwrap();
+        let pt = |x: f64| VlePoint {
+            x1: x,
+            y1: None,
+            temperature_k: Some(350.0),
+            pressure_pa: Some(1e5),
+        };
+        let two = [pt(0.2), pt(0.4)];
+        assert_eq!(
+            fit_pair(&c, LiquidModel::Nrtl, &two, 0.3, None, None)
+                .unwrap_err()
+                .kind(),
+            "too-few-points"
+        );
+        let three = [pt(0.2), pt(0.4), pt(0.6)];
+        for (kind, alpha) in [
+            (LiquidModel::Ideal, 0.3),
+            (LiquidModel::Nrtl, 0.0),
+            (LiquidModel::Nrtl, 1.5),
+        ] {
+            assert_eq!(
+                fit_pair(&c, kind, &three, alpha, None, None).unwrap_err().kind(),
+                "degenerate"
+            );
+        }
+        let bare = [
+            VlePoint {
+                temperature_k: None,
+                pressure_pa: None,
+                ..pt(0.2)
+            },
+            pt(0.4),
+            pt(0.6),
+        ];
+        assert_eq!(
+            fit_pair(&c, LiquidModel::Nrtl, &bare, 0.3, None, None)
+                .unwrap_err()
+                .kind(),
+            "degenerate"
+        );
+        let d = crate::library::Library::builtin()
+            .get_all(&["ethanol", "n-decane"])
+            .unwrap();
+        let e = fit_pair(&d, LiquidModel::Uniquac, &three, 0.3, None, None).unwrap_err();
+        assert!(e.to_string().contains("r and q"), "{e}");
     }
 }
