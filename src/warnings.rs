@@ -8,6 +8,10 @@ use std::fmt;
 /// practice, no source).
 pub const RAOULT_PRESSURE_LIMIT_PA: f64 = 5e5;
 
+/// CAS numbers of the library's components whose vapour associates (acetic acid, 64-19-7:
+/// carboxylic acids form hydrogen-bonded dimers in the vapour; common knowledge).
+pub const ASSOCIATING_VAPOUR_CAS: &[&str] = &["64-19-7"];
+
 /// One warning attached to a result.
 ///
 /// ```
@@ -192,6 +196,22 @@ pub enum Warning {
         /// The other.
         second: String,
     },
+    /// A component whose vapour associates (acetic acid: hydrogen-bonded dimers) is in the
+    /// mixture: the ideal-gas vapour, which counts every molecule as a monomer, misstates its
+    /// K-value and its vapour enthalpy. The library's own data show the size of it: for
+    /// acetic acid the Clausius–Clapeyron latent heat from its vapour pressure exceeds the
+    /// calorimetric one by 65 % (`tests/library_data.rs`).
+    ///
+    /// ```
+    /// use flashduty::warnings::Warning;
+    /// let w = Warning::VapourAssociates { component: "acetic acid".into() };
+    /// assert!(w.to_string().contains("dimers"));
+    /// assert!(serde_json::to_string(&w).unwrap().contains("\"kind\":\"vapour-associates\""));
+    /// ```
+    VapourAssociates {
+        /// The component.
+        component: String,
+    },
     /// A pair's activity-model parameters are used outside the temperature range of the
     /// data they were fitted to.
     ///
@@ -311,6 +331,10 @@ impl fmt::Display for Warning {
                 f,
                 "{first} and {second} form a strongly non-ideal liquid, which Raoult's law (an ideal liquid) misses: bubble and dew points can be off by several kelvin and azeotropes are not found; set \"liquid_model\": \"nrtl\" (or wilson, uniquac)"
             ),
+            Warning::VapourAssociates { component } => write!(
+                f,
+                "{component}: its vapour is largely hydrogen-bonded dimers near its boiling point, which the ideal-gas vapour ignores; its K-value and vapour enthalpy are rough (the library's Clausius–Clapeyron latent heat for it is 65 % off for this reason)"
+            ),
             Warning::PairWithoutParameters { model, first, second } => write!(
                 f,
                 "{model}: no parameters for the pair {first}–{second}; it is taken as ideal (give them in binary_parameters)"
@@ -359,6 +383,7 @@ pub(crate) fn push_unique(list: &mut Vec<Warning>, w: Warning) {
         (Warning::PathSpread { component: c1, .. }, Warning::PathSpread { component: c2, .. }) => c1 == c2,
         (Warning::VirialOutOfRange { component: c1, .. }, Warning::VirialOutOfRange { component: c2, .. }) => c1 == c2,
         (Warning::SecondLiquidLikely { .. }, Warning::SecondLiquidLikely { .. }) => true,
+        (Warning::VapourAssociates { component: c1 }, Warning::VapourAssociates { component: c2 }) => c1 == c2,
         (
             Warning::PartlyMiscibleWithWater { component: c1, .. },
             Warning::PartlyMiscibleWithWater { component: c2, .. },

@@ -248,6 +248,22 @@ fn warnings_are_machine_readable() {
     )));
     let json = serde_json::to_value(&r.warnings).unwrap();
     assert!(json.as_array().unwrap().iter().all(|w| w.get("kind").is_some()));
+    // Acetic acid's vapour dimerises (its Clausius–Clapeyron latent heat from the library's
+    // vapour pressure is 65 % above the calorimetric one, CRC from memory: library_data.rs):
+    // every result with it says so.
+    let acid = flash(
+        &Raoult::from_names(&["acetic acid", "water"]).unwrap(),
+        &[0.3, 0.7],
+        FlashSpec::BubbleTemperature { pressure: p(101_325.0) },
+    )
+    .unwrap();
+    assert!(
+        acid.warnings
+            .iter()
+            .any(|w| matches!(w, Warning::VapourAssociates { component } if component == "acetic acid")),
+        "{:?}",
+        acid.warnings
+    );
     let quiet = flash(
         &Raoult::from_names(&["benzene", "toluene"]).unwrap(),
         &[0.5, 0.5],

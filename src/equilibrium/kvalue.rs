@@ -320,6 +320,16 @@ impl KValueModel for Raoult {
                 );
             }
         }
+        for c in &self.components {
+            if crate::warnings::ASSOCIATING_VAPOUR_CAS.contains(&c.cas()) {
+                push_unique(
+                    out,
+                    Warning::VapourAssociates {
+                        component: c.name().to_string(),
+                    },
+                );
+            }
+        }
         if p_pa > RAOULT_PRESSURE_LIMIT_PA {
             push_unique(
                 out,
