@@ -356,8 +356,8 @@ fn minimise(problem: &Problem<'_>) -> Result<(Vec<f64>, u64), FitError> {
 /// `points`, by least squares on ln P (points with T and P measured: the model's bubble
 /// pressure at the point's T and x), on T (points with P only: its bubble temperature) and on
 /// y₁ (where measured), minimised by Nelder–Mead (`argmin`) from four starts. NRTL's α is
-/// `alpha` (0.3 is common practice); Wilson's volumes are `volumes` (cm³/mol); UNIQUAC's r
-/// and q come from `sizes`.
+/// `alpha` (0.3 is common practice); Wilson's volumes are `volumes` (cm³/mol; `None` takes
+/// them equal); UNIQUAC's r and q come from `sizes` (`None`: the built-in ones).
 ///
 /// # Errors
 /// [`FitError::TooFewPoints`] below three points; [`FitError::Degenerate`] for a point
