@@ -10,6 +10,7 @@ use crate::properties::{Component, VapourPressure};
 use crate::units::{self, GAS_CONSTANT, Pressure, QuantityKind};
 use argmin::core::{CostFunction, Executor, State};
 use argmin::solver::neldermead::NelderMead;
+use argmin_math::{ArgminAdd, ArgminMul, ArgminSub};
 use serde_json::{Value, json};
 use std::sync::Arc;
 
@@ -281,12 +282,35 @@ impl Problem<'_> {
     }
 }
 
+/// The two interaction energies over R (K): the point Nelder–Mead moves (argmin's vector
+/// arithmetic for it is written here, so the crate needs no vector backend of argmin's).
+#[derive(Debug, Clone, Copy, PartialEq)]
+struct Energies([f64; 2]);
+
+impl ArgminAdd<Energies, Energies> for Energies {
+    fn add(&self, other: &Energies) -> Energies {
+        Energies([self.0[0] + other.0[0], self.0[1] + other.0[1]])
+    }
+}
+
+impl ArgminSub<Energies, Energies> for Energies {
+    fn sub(&self, other: &Energies) -> Energies {
+        Energies([self.0[0] - other.0[0], self.0[1] - other.0[1]])
+    }
+}
+
+impl ArgminMul<f64, Energies> for Energies {
+    fn mul(&self, factor: &f64) -> Energies {
+        Energies([self.0[0] * factor, self.0[1] * factor])
+    }
+}
+
 impl CostFunction for Problem<'_> {
-    type Param = Vec<f64>;
+    type Param = Energies;
     type Output = f64;
 
-    fn cost(&self, e: &Vec<f64>) -> Result<f64, argmin::core::Error> {
-        let Some(pred) = self.predict(e) else {
+    fn cost(&self, e: &Energies) -> Result<f64, argmin::core::Error> {
+        let Some(pred) = self.predict(&e.0) else {
             return Ok(1e10);
         };
         let mut sum = 0.0;
@@ -309,14 +333,14 @@ impl CostFunction for Problem<'_> {
 }
 
 /// Nelder–Mead from several starts; the best energies and the evaluations taken.
-fn minimise(problem: &Problem<'_>) -> Result<(Vec<f64>, u64), FitError> {
-    let mut best: Option<(f64, Vec<f64>)> = None;
+fn minimise(problem: &Problem<'_>) -> Result<([f64; 2], u64), FitError> {
+    let mut best: Option<(f64, [f64; 2])> = None;
     let mut evaluations = 0;
     for start in [[0.0, 0.0], [300.0, 300.0], [-150.0, 600.0], [600.0, -150.0]] {
         let simplex = vec![
-            start.to_vec(),
-            vec![start[0] + 200.0, start[1]],
-            vec![start[0], start[1] + 200.0],
+            Energies(start),
+            Energies([start[0] + 200.0, start[1]]),
+            Energies([start[0], start[1] + 200.0]),
         ];
         let solver = NelderMead::new(simplex)
             .with_sd_tolerance(1e-12)
@@ -335,7 +359,7 @@ fn minimise(problem: &Problem<'_>) -> Result<(Vec<f64>, u64), FitError> {
         if let Some(p) = res.state().get_best_param() {
             let cost = res.state().get_best_cost();
             if best.as_ref().is_none_or(|(c, _)| cost < *c) {
-                best = Some((cost, p.clone()));
+                best = Some((cost, p.0));
             }
         }
     }
